@@ -1,0 +1,2 @@
+// Replaced below once the server harness exists.
+export default async function setup() {}
