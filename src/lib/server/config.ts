@@ -1,0 +1,50 @@
+import { z } from 'zod';
+
+// process.env is read once, here, and nowhere else on the server.
+const envSchema = z.object({
+	NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
+	DATABASE_URL: z.string().min(1).default('sqlite:data/sootcast.db'),
+	PORT: z.coerce.number().int().min(1).max(65535).default(3000),
+	HOST: z.string().default('0.0.0.0'),
+	ORIGIN: z.string().url().optional(),
+	PUBLIC_URL: z.string().url().optional(),
+	/** Secure cookies; defaults to on when the public URL is https. */
+	COOKIE_SECURE: z
+		.enum(['true', 'false'])
+		.optional()
+		.transform((v) => (v === undefined ? undefined : v === 'true')),
+	SMTP_URL: z.string().optional(),
+	MAIL_FROM: z.string().default('Sootcast <no-reply@sootcast.test>'),
+	MAIL_SINK_PORT: z.coerce.number().int().min(0).max(65535).default(2525),
+	TZ_DEFAULT: z.string().default('Europe/London'),
+	SIGNIN_MAX_FAILURES: z.coerce.number().int().min(1).default(5),
+	SIGNIN_LOCK_MINUTES: z.coerce.number().int().min(1).default(15),
+	SIGNIN_MAX_FAILURES_PER_ADDRESS: z.coerce.number().int().min(1).default(30),
+	SEED_DEMO: z
+		.enum(['true', 'false'])
+		.default('true')
+		.transform((v) => v === 'true'),
+	LOG_SQL: z
+		.enum(['true', 'false'])
+		.default('false')
+		.transform((v) => v === 'true')
+});
+
+export type Config = z.infer<typeof envSchema>;
+
+function loadConfig(): Config {
+	const parsed = envSchema.safeParse(process.env);
+	if (!parsed.success) {
+		const lines = parsed.error.issues.map((i) => `  ${i.path.join('.')}: ${i.message}`);
+		throw new Error(`Invalid environment configuration:\n${lines.join('\n')}`);
+	}
+	return parsed.data;
+}
+
+export const config: Config = loadConfig();
+
+export const publicUrl = (): string =>
+	config.PUBLIC_URL ?? config.ORIGIN ?? `http://localhost:${config.PORT}`;
+
+export const isSecureCookie = (): boolean =>
+	config.COOKIE_SECURE ?? publicUrl().startsWith('https://');

@@ -1,0 +1,62 @@
+import type { Sequelize } from 'sequelize';
+import { createSequelize } from './sequelize';
+import { createMigrator } from './migrator';
+import * as models from './models';
+
+const {
+	ApiToken, Booking, Contract, Depot, Forecast, ImportBatch, Organisation, Reading,
+	SensorTest, SensorType, Session, Trip, Upload, User, Vehicle, VehicleEvent, VisitReport
+} = models;
+
+function associate(): void {
+	Organisation.hasMany(User, { foreignKey: 'organisationId' });
+	User.belongsTo(Organisation, { foreignKey: 'organisationId', as: 'organisation' });
+	Session.belongsTo(User, { foreignKey: 'userId', as: 'user' });
+	Organisation.hasMany(Depot, { foreignKey: 'organisationId' });
+	Depot.belongsTo(Organisation, { foreignKey: 'organisationId' });
+	Contract.belongsTo(Organisation, { foreignKey: 'fleetId', as: 'fleet' });
+	Contract.belongsTo(Organisation, { foreignKey: 'workshopId', as: 'workshop' });
+	Vehicle.belongsTo(Organisation, { foreignKey: 'organisationId', as: 'fleet' });
+	Vehicle.belongsTo(Depot, { foreignKey: 'depotId', as: 'depot' });
+	Vehicle.belongsTo(SensorType, { foreignKey: 'sensorTypeId', as: 'sensorType' });
+	Vehicle.belongsTo(User, { foreignKey: 'driverId', as: 'driver' });
+	Vehicle.hasMany(Reading, { foreignKey: 'vehicleId', as: 'readings' });
+	Reading.belongsTo(Vehicle, { foreignKey: 'vehicleId', as: 'vehicle' });
+	Vehicle.hasMany(VehicleEvent, { foreignKey: 'vehicleId', as: 'events' });
+	VehicleEvent.belongsTo(Vehicle, { foreignKey: 'vehicleId', as: 'vehicle' });
+	Vehicle.hasMany(Trip, { foreignKey: 'vehicleId', as: 'trips' });
+	Trip.belongsTo(Vehicle, { foreignKey: 'vehicleId', as: 'vehicle' });
+	Vehicle.hasMany(Forecast, { foreignKey: 'vehicleId', as: 'forecasts' });
+	Forecast.belongsTo(Vehicle, { foreignKey: 'vehicleId', as: 'vehicle' });
+	Booking.belongsTo(Vehicle, { foreignKey: 'vehicleId', as: 'vehicle' });
+	Booking.belongsTo(Organisation, { foreignKey: 'workshopId', as: 'workshop' });
+	VisitReport.belongsTo(Vehicle, { foreignKey: 'vehicleId', as: 'vehicle' });
+	SensorTest.belongsTo(Vehicle, { foreignKey: 'vehicleId', as: 'vehicle' });
+	Upload.belongsTo(Organisation, { foreignKey: 'organisationId' });
+	ApiToken.belongsTo(Organisation, { foreignKey: 'organisationId' });
+	ImportBatch.belongsTo(Organisation, { foreignKey: 'organisationId' });
+}
+
+let instance: Sequelize | null = null;
+
+/** The one Sequelize instance of this process, with every model and association wired. */
+export function getDb(): Sequelize {
+	if (instance) return instance;
+	const sequelize = createSequelize();
+	for (const model of Object.values(models)) model.initModel(sequelize);
+	associate();
+	instance = sequelize;
+	return sequelize;
+}
+
+export async function migrate(): Promise<string[]> {
+	const done = await createMigrator(getDb()).up();
+	return done.map((m) => m.name);
+}
+
+export async function closeDb(): Promise<void> {
+	if (instance) await instance.close();
+	instance = null;
+}
+
+export * from './models';

@@ -1,0 +1,21 @@
+import { redirect } from '@sveltejs/kit';
+import { requireUser } from '$lib/server/auth/guards';
+import { parseForm } from '$lib/server/http/forms';
+import { updateOwnSettings } from '$lib/server/services/account';
+import { unitPreferenceSchema } from '$lib/validation/vehicle';
+import type { Actions, PageServerLoad } from './$types';
+
+export const load: PageServerLoad = ({ url }) => {
+	requireUser();
+	return { saved: url.searchParams.has('saved') };
+};
+
+export const actions: Actions = {
+	save: async ({ request }) => {
+		const user = requireUser();
+		const parsed = await parseForm(unitPreferenceSchema, request);
+		if (!parsed.ok) return parsed.failure;
+		await updateOwnSettings(user, parsed.data);
+		redirect(303, '/settings?saved');
+	}
+};
