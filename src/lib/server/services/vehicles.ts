@@ -85,7 +85,7 @@ async function latestReadingByVehicle(ids: number[]): Promise<Map<number, Readin
 async function latestForecastByVehicle(ids: number[]): Promise<Map<number, Forecast>> {
 	if (!ids.length) return new Map();
 	const newest = (await Forecast.findAll({
-		attributes: [[getDb().fn('MAX', getDb().col('id')), 'id']],
+		attributes: ['vehicleId', [getDb().fn('MAX', getDb().col('id')), 'id']],
 		where: { vehicleId: { [Op.in]: ids } },
 		group: ['vehicleId'],
 		raw: true

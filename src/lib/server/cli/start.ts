@@ -1,0 +1,102 @@
+/**
+ * `npm start`: builds if the build is missing or older than the sources, migrates, loads the
+ * demo fleet into an empty database, starts the local mail sink (when no SMTP_URL is set), the
+ * web server and the jobs worker, and stops them all on Ctrl-C.
+ */
+import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
+import fs from 'node:fs';
+import path from 'node:path';
+import { config } from '../config';
+import { closeDb, migrate } from '../db';
+import { seedDemo } from '../services/demo-seed';
+import { startMailSink, type MailSink } from '../mail/sink';
+import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../demo/scenario';
+import { startWorker } from '../../../../jobs/index';
+
+const root = process.cwd();
+const buildEntry = path.join(root, 'build', 'index.js');
+
+function newestMtime(target: string): number {
+	if (!fs.existsSync(target)) return 0;
+	const stat = fs.statSync(target);
+	if (!stat.isDirectory()) return stat.mtimeMs;
+	let newest = stat.mtimeMs;
+	for (const entry of fs.readdirSync(target)) newest = Math.max(newest, newestMtime(path.join(target, entry)));
+	return newest;
+}
+
+function buildIfNeeded(): void {
+	const built = fs.existsSync(buildEntry) ? fs.statSync(buildEntry).mtimeMs : 0;
+	const sources = Math.max(
+		...['src', 'static', 'svelte.config.js', 'vite.config.ts', 'package.json'].map((p) => newestMtime(path.join(root, p)))
+	);
+	if (built >= sources) return;
+	console.log(built ? 'Sources changed since the last build; rebuilding…' : 'Building Sootcast (first start)…');
+	const result = spawnSync('npx', ['vite', 'build'], { stdio: 'inherit', cwd: root });
+	if (result.status !== 0) {
+		console.error('The build failed; see the messages above.');
+		process.exit(result.status ?? 1);
+	}
+}
+
+buildIfNeeded();
+await migrate();
+if (config.SEED_DEMO) {
+	const summary = await seedDemo();
+	if (summary.seeded) console.log(`Loaded the demo fleet: ${summary.vans} vans, ${summary.readings} readings, ${summary.trips} trips.`);
+}
+
+let sink: MailSink | null = null;
+let smtpUrl = config.SMTP_URL;
+if (!smtpUrl) {
+	sink = await startMailSink({ port: config.MAIL_SINK_PORT, dir: path.join(root, 'data', 'mailbox') });
+	smtpUrl = `smtp://127.0.0.1:${sink.port}`;
+	console.log(`Local mail sink listening on ${smtpUrl} (messages kept in data/mailbox).`);
+}
+
+const origin = config.ORIGIN ?? `http://localhost:${config.PORT}`;
+const web: ChildProcess = spawn(process.execPath, [buildEntry], {
+	stdio: 'inherit',
+	env: {
+		...process.env,
+		PORT: String(config.PORT),
+		HOST: config.HOST,
+		ORIGIN: origin,
+		SMTP_URL: smtpUrl,
+		MAIL_SINK_DIR: sink ? sink.dir : '',
+		DATABASE_URL: config.DATABASE_URL
+	}
+});
+process.env.SMTP_URL = smtpUrl;
+const stopWorker = startWorker();
+
+console.log(`
+Sootcast is running at ${origin}
+
+Demo sign-ins (password for all: ${DEMO_PASSWORD})
+  Fleet manager  ${DEMO_ACCOUNTS.fleetManager.email}
+  Workshop       ${DEMO_ACCOUNTS.workshop.email}
+  Driver         ${DEMO_ACCOUNTS.driver.email}
+  Administrator  ${DEMO_ACCOUNTS.admin.email}
+
+Press Ctrl-C to stop.
+`);
+
+let stopping = false;
+async function stop(code = 0) {
+	if (stopping) return;
+	stopping = true;
+	stopWorker();
+	if (web.exitCode === null) web.kill('SIGTERM');
+	await sink?.close();
+	await closeDb();
+	process.exit(code);
+}
+process.on('SIGINT', () => void stop(0));
+process.on('SIGTERM', () => void stop(0));
+web.on('exit', (code) => {
+	if (!stopping) {
+		console.error(`The web server stopped (exit code ${code}).`);
+		void stop(code ?? 1);
+	}
+});
