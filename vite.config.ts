@@ -12,7 +12,7 @@ export default defineConfig({
 				test: {
 					name: 'unit',
 					environment: 'node',
-					include: ['src/**/*.test.ts', 'jobs/**/*.test.ts'],
+					include: ['src/**/*.test.ts', 'jobs/**/*.test.ts', 'tests/unit/**/*.test.ts'],
 					exclude: ['src/**/*.integration.test.ts']
 				}
 			},

@@ -15,6 +15,7 @@ const envSchema = z.object({
 		.transform((v) => (v === undefined ? undefined : v === 'true')),
 	SMTP_URL: z.string().optional(),
 	MAIL_FROM: z.string().default('Sootcast <no-reply@sootcast.test>'),
+	MAIL_SINK_DIR: z.string().default('data/mailbox'),
 	MAIL_SINK_PORT: z.coerce.number().int().min(0).max(65535).default(2525),
 	TZ_DEFAULT: z.string().default('Europe/London'),
 	SIGNIN_MAX_FAILURES: z.coerce.number().int().min(1).default(5),

@@ -49,9 +49,9 @@ if (config.SEED_DEMO) {
 let sink: MailSink | null = null;
 let smtpUrl = config.SMTP_URL;
 if (!smtpUrl) {
-	sink = await startMailSink({ port: config.MAIL_SINK_PORT, dir: path.join(root, 'data', 'mailbox') });
+	sink = await startMailSink({ port: config.MAIL_SINK_PORT, dir: path.resolve(config.MAIL_SINK_DIR) });
 	smtpUrl = `smtp://127.0.0.1:${sink.port}`;
-	console.log(`Local mail sink listening on ${smtpUrl} (messages kept in data/mailbox).`);
+	console.log(`Local mail sink listening on ${smtpUrl} (messages kept in ${sink.dir}).`);
 }
 
 const origin = config.ORIGIN ?? `http://localhost:${config.PORT}`;

@@ -1,0 +1,13 @@
+import { expect, type Page } from '@playwright/test';
+import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../src/lib/server/demo/scenario';
+
+export const ACCOUNTS = DEMO_ACCOUNTS;
+
+/** Signs in through the real form, by label, as a person would. */
+export async function signIn(page: Page, email: string, password = DEMO_PASSWORD) {
+	await page.goto('/login');
+	await page.getByLabel('E-mail').fill(email);
+	await page.getByLabel('Password').fill(password);
+	await page.getByRole('button', { name: 'Sign in' }).click();
+	await expect(page).not.toHaveURL(/\/login/);
+}
