@@ -5,5 +5,6 @@ import type { Job } from './types';
 export const housekeeping: Job = {
 	name: 'housekeeping',
 	schedule: process.env.JOB_HOUSEKEEPING_CRON ?? '17 * * * *',
+	recorded: true,
 	run: ({ now }) => removeExpiredSignInState(now)
 };

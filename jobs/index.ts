@@ -1,37 +1,38 @@
 import cron from 'node-cron';
-import { getDb, migrate } from '../src/lib/server/db';
+import { closeDb, getDb, migrate } from '../src/lib/server/db';
+import { runUnderLease } from '../src/lib/server/services/job-runner';
 import { housekeeping } from './housekeeping';
+import { outbox } from './outbox';
 import type { Job } from './types';
 
-export const JOBS: Job[] = [housekeeping];
+export const JOBS: Job[] = [housekeeping, outbox];
 
-const running = new Set<string>();
-
-/** Runs one job now, unless this process is already running it. */
+/** Runs one job now under its lease; logs start, end and summary. Returns null if skipped or failed. */
 export async function runJob(job: Job, now = new Date()) {
-	if (running.has(job.name)) {
-		console.log(`[jobs] ${job.name}: previous run still going, skipped`);
-		return null;
-	}
-	running.add(job.name);
 	const started = Date.now();
-	console.log(`[jobs] ${job.name}: started`);
 	try {
-		const summary = await job.run({ now });
-		console.log(`[jobs] ${job.name}: done in ${Date.now() - started} ms`, JSON.stringify(summary));
-		return summary;
+		const outcome = await runUnderLease(job.name, async ({ runId }) => job.run({ now, runId: job.recorded ? runId : null }), {
+			now
+		});
+		if (outcome.skipped) {
+			console.log(`[jobs] ${job.name}: skipped (${outcome.reason})`);
+			return null;
+		}
+		const quiet = !job.recorded && Object.values(outcome.summary).every((v) => v === 0);
+		if (!quiet) console.log(`[jobs] ${job.name}: done in ${Date.now() - started} ms ${JSON.stringify(outcome.summary)}`);
+		return outcome.summary;
 	} catch (err) {
 		console.error(`[jobs] ${job.name}: failed`, err);
 		return null;
-	} finally {
-		running.delete(job.name);
 	}
 }
 
 /** Registers every job once; returns a function that stops them. */
 export function startWorker(timezone = process.env.JOBS_TZ ?? 'Europe/London'): () => void {
 	getDb();
-	const tasks = JOBS.map((job) => cron.schedule(job.schedule, () => void runJob(job), { timezone, name: job.name }));
+	const tasks = JOBS.map((job) =>
+		cron.schedule(job.schedule, () => void runJob(job), { timezone, name: job.name, noOverlap: true })
+	);
 	console.log(`[jobs] scheduled: ${JOBS.map((j) => `${j.name} (${j.schedule})`).join(', ')} in ${timezone}`);
 	return () => tasks.forEach((t) => t.stop());
 }
@@ -48,7 +49,7 @@ if (import.meta.url === `file://${process.argv[1]}`) {
 			process.exit(2);
 		}
 		const summary = await runJob(job);
-		await getDb().close();
+		await closeDb();
 		process.exit(summary ? 0 : 1);
 	}
 	startWorker();

@@ -9,6 +9,8 @@ declare module 'vitest' {
 	export interface ProvidedContext {
 		baseUrl: string;
 		databaseUrl: string;
+		smtpUrl: string;
+		mailDir: string;
 	}
 }
 
@@ -55,19 +57,37 @@ export default async function setup(project: TestProject) {
 	await seedDemo(new Date(), 120);
 	await closeDb();
 
+	const { startMailSink } = await import('../../src/lib/server/mail/sink');
+	const mailDir = path.join(dir, 'mailbox');
+	const sink = await startMailSink({ port: 0, dir: mailDir });
+	const smtpUrl = `smtp://127.0.0.1:${sink.port}`;
+
 	const port = await freePort();
 	const baseUrl = `http://127.0.0.1:${port}`;
 	const server = spawn(process.execPath, [buildEntry], {
-		env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', ORIGIN: baseUrl, DATABASE_URL: databaseUrl, NODE_ENV: 'test' },
+		env: {
+			...process.env,
+			PORT: String(port),
+			HOST: '127.0.0.1',
+			ORIGIN: baseUrl,
+			DATABASE_URL: databaseUrl,
+			SMTP_URL: smtpUrl,
+			DEV_MAILBOX_DIR: mailDir,
+			APP_SECRET: 'integration-tests-secret-0123456789abcdef',
+			NODE_ENV: 'test'
+		},
 		stdio: ['ignore', 'inherit', 'inherit']
 	});
 	await waitForHealth(baseUrl, server);
 	project.provide('baseUrl', baseUrl);
 	project.provide('databaseUrl', databaseUrl);
+	project.provide('smtpUrl', smtpUrl);
+	project.provide('mailDir', mailDir);
 
 	return async () => {
 		server.kill('SIGTERM');
 		await new Promise((r) => server.once('exit', r));
+		await sink.close();
 		fs.rmSync(dir, { recursive: true, force: true });
 	};
 }

@@ -6,10 +6,18 @@ export interface NavItem {
 }
 
 export const NAV_BY_ROLE: Record<Role, NavItem[]> = {
-	fleet_manager: [{ href: '/fleet', label: 'Vans' }],
+	fleet_manager: [
+		{ href: '/fleet', label: 'Vans' },
+		{ href: '/fleet/people', label: 'Invite' }
+	],
 	workshop: [{ href: '/workshop', label: 'Contracted vans' }],
 	driver: [{ href: '/driver', label: 'My van' }],
-	admin: [{ href: '/admin', label: 'Organisations and people' }]
+	admin: [
+		{ href: '/admin', label: 'Organisations and people' },
+		{ href: '/admin/people', label: 'Invite' },
+		{ href: '/admin/jobs', label: 'Job runs' },
+		{ href: '/admin/mailbox', label: 'Mailbox' }
+	]
 };
 
 export const ROLE_LABEL: Record<Role, string> = {

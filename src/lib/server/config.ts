@@ -16,6 +16,10 @@ const envSchema = z.object({
 	SMTP_URL: z.string().optional(),
 	MAIL_FROM: z.string().default('Sootcast <no-reply@sootcast.test>'),
 	MAIL_SINK_DIR: z.string().default('data/mailbox'),
+	/** Set by `npm start` for the web server only while the local sink is the transport. */
+	DEV_MAILBOX_DIR: z.string().optional(),
+	/** Signs unsubscribe links; must be the same on every instance. Generated under data/ when unset. */
+	APP_SECRET: z.string().min(32, 'APP_SECRET must be at least 32 characters').optional(),
 	MAIL_SINK_PORT: z.coerce.number().int().min(0).max(65535).default(2525),
 	TZ_DEFAULT: z.string().default('Europe/London'),
 	SIGNIN_MAX_FAILURES: z.coerce.number().int().min(1).default(5),

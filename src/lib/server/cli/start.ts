@@ -10,6 +10,7 @@ import { config } from '../config';
 import { closeDb, migrate } from '../db';
 import { seedDemo } from '../services/demo-seed';
 import { startMailSink, type MailSink } from '../mail/sink';
+import { configureMailTransport } from '../mail/mailer';
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../demo/scenario';
 import { startWorker } from '../../../../jobs/index';
 
@@ -63,11 +64,11 @@ const web: ChildProcess = spawn(process.execPath, [buildEntry], {
 		HOST: config.HOST,
 		ORIGIN: origin,
 		SMTP_URL: smtpUrl,
-		MAIL_SINK_DIR: sink ? sink.dir : '',
+		DEV_MAILBOX_DIR: sink ? sink.dir : '',
 		DATABASE_URL: config.DATABASE_URL
 	}
 });
-process.env.SMTP_URL = smtpUrl;
+configureMailTransport(smtpUrl);
 const stopWorker = startWorker();
 
 console.log(`

@@ -1,9 +1,13 @@
 import { Umzug, SequelizeStorage } from 'umzug';
 import type { QueryInterface, Sequelize } from 'sequelize';
 import * as m0001 from './migrations/0001-initial-schema';
+import * as m0002 from './migrations/0002-action-tokens';
 
 // An explicit list, not a folder glob: a glob does not survive bundling into the server build.
-const migrations = [{ name: '0001-initial-schema', ...m0001 }];
+const migrations = [
+	{ name: '0001-initial-schema', ...m0001 },
+	{ name: '0002-action-tokens', ...m0002 }
+];
 
 export function createMigrator(sequelize: Sequelize) {
 	return new Umzug<QueryInterface>({

@@ -15,7 +15,7 @@ export async function recordAudit(
 		action,
 		entity,
 		entityId: entityId === null ? null : String(entityId),
-		details: (details ?? null) as object | null,
+		details: (details ?? null) as Record<string, unknown> | null,
 		at: now
 	});
 }

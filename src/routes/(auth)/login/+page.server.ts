@@ -10,7 +10,7 @@ import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = ({ locals, url }) => {
 	if (locals.user) redirect(303, HOME_BY_ROLE[locals.user.role]);
-	return { redirectTo: safeRedirect(url.searchParams.get('redirectTo')) };
+	return { redirectTo: safeRedirect(url.searchParams.get('redirectTo')), passwordSet: url.searchParams.get('password') === 'set' };
 };
 
 export const actions: Actions = {

@@ -8,7 +8,7 @@ export class AuditLog extends Model<InferAttributes<AuditLog>, InferCreationAttr
 	declare action: string;
 	declare entity: string;
 	declare entityId: CreationOptional<string | null>;
-	declare details: CreationOptional<object | null>;
+	declare details: CreationOptional<Record<string, unknown> | null>;
 	declare at: Date;
 
 	static initModel(sequelize: Sequelize): void {

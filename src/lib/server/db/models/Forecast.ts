@@ -19,7 +19,7 @@ export class Forecast extends Model<InferAttributes<Forecast>, InferCreationAttr
 	declare crossingExpected: CreationOptional<Date | null>;
 	declare crossingLatest: CreationOptional<Date | null>;
 	declare explanation: string;
-	declare details: CreationOptional<object | null>;
+	declare details: CreationOptional<Record<string, unknown> | null>;
 	declare createdAt: CreationOptional<Date>;
 	declare updatedAt: CreationOptional<Date>;
 

@@ -6,7 +6,7 @@ export class JobRun extends Model<InferAttributes<JobRun>, InferCreationAttribut
 	declare startedAt: Date;
 	declare finishedAt: CreationOptional<Date | null>;
 	declare state: CreationOptional<'running' | 'done' | 'failed'>;
-	declare summary: CreationOptional<object | null>;
+	declare summary: CreationOptional<Record<string, unknown> | null>;
 
 	static initModel(sequelize: Sequelize): void {
 		JobRun.init(

@@ -7,7 +7,7 @@ export class OutboxMessage extends Model<InferAttributes<OutboxMessage>, InferCr
 	declare subject: string;
 	declare textBody: string;
 	declare htmlBody: CreationOptional<string | null>;
-	declare attachments: CreationOptional<object | null>;
+	declare attachments: CreationOptional<Record<string, unknown> | null>;
 	declare dedupeKey: string;
 	declare state: CreationOptional<'pending' | 'sent' | 'failed'>;
 	declare attempts: CreationOptional<number>;

@@ -9,7 +9,7 @@ export class SensorTest extends Model<InferAttributes<SensorTest>, InferCreation
 	declare authorId: number;
 	declare testedAt: Date;
 	declare verdict: string;
-	declare result: object;
+	declare result: Record<string, unknown>;
 	declare createdAt: CreationOptional<Date>;
 	declare updatedAt: CreationOptional<Date>;
 

@@ -9,8 +9,8 @@ export class VisitReport extends Model<InferAttributes<VisitReport>, InferCreati
 	declare authorId: number;
 	declare visitedAt: Date;
 	declare findings: CreationOptional<string | null>;
-	declare rootCause: CreationOptional<object | null>;
-	declare actions: CreationOptional<object | null>;
+	declare rootCause: CreationOptional<Record<string, unknown> | null>;
+	declare actions: CreationOptional<Record<string, unknown> | null>;
 	declare signedOffAt: CreationOptional<Date | null>;
 	declare signedOffById: CreationOptional<number | null>;
 	declare createdAt: CreationOptional<Date>;

@@ -1,3 +1,4 @@
+export { ActionToken } from './ActionToken';
 export { ApiToken } from './ApiToken';
 export { AuditLog } from './AuditLog';
 export { Booking } from './Booking';
