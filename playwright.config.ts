@@ -3,10 +3,10 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 
-// A fresh database for every run, started through the same launcher as `npm start`.
-const dataDir = path.join(os.tmpdir(), 'sootcast-e2e');
-fs.rmSync(dataDir, { recursive: true, force: true });
-fs.mkdirSync(dataDir, { recursive: true });
+// A fresh database for every run, started through the same launcher as `npm start`. The config
+// is evaluated again in every worker, so the folder is made once and handed down in the env.
+process.env.SOOTCAST_E2E_DIR ??= fs.mkdtempSync(path.join(os.tmpdir(), 'sootcast-e2e-'));
+const dataDir = process.env.SOOTCAST_E2E_DIR;
 const port = Number(process.env.E2E_PORT ?? 3100);
 export const baseURL = `http://localhost:${port}`;
 
@@ -43,14 +43,15 @@ export default defineConfig({
 		url: `${baseURL}/api/health`,
 		reuseExistingServer: false,
 		timeout: 180_000,
-		stdout: 'ignore',
+		stdout: process.env.E2E_SERVER_LOG ? 'pipe' : 'ignore',
 		stderr: 'pipe',
 		env: {
 			DATABASE_URL: `sqlite:${path.join(dataDir, 'sootcast.db')}`,
 			PORT: String(port),
 			ORIGIN: baseURL,
 			MAIL_SINK_PORT: '0',
-			MAIL_SINK_DIR: path.join(dataDir, 'mailbox')
+			MAIL_SINK_DIR: path.join(dataDir, 'mailbox'),
+			APP_SECRET: 'end-to-end-tests-secret-0123456789abcdef'
 		}
 	}
 });
