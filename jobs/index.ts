@@ -1,11 +1,12 @@
 import cron from 'node-cron';
 import { closeDb, getDb, migrate } from '../src/lib/server/db';
 import { runUnderLease } from '../src/lib/server/services/job-runner';
+import { forecast } from './forecast';
 import { housekeeping } from './housekeeping';
 import { outbox } from './outbox';
 import type { Job } from './types';
 
-export const JOBS: Job[] = [housekeeping, outbox];
+export const JOBS: Job[] = [forecast, housekeeping, outbox];
 
 /** Runs one job now under its lease; logs start, end and summary. Returns null if skipped or failed. */
 export async function runJob(job: Job, now = new Date()) {

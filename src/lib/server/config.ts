@@ -25,6 +25,9 @@ const envSchema = z.object({
 	SIGNIN_MAX_FAILURES: z.coerce.number().int().min(1).default(5),
 	SIGNIN_LOCK_MINUTES: z.coerce.number().int().min(1).default(15),
 	SIGNIN_MAX_FAILURES_PER_ADDRESS: z.coerce.number().int().min(1).default(30),
+	/** Expected crossing within this many days: 'crossing soon'; within the second: 'keep an eye on it'. */
+	FORECAST_SOON_DAYS: z.coerce.number().int().min(1).max(365).default(30),
+	FORECAST_WATCH_DAYS: z.coerce.number().int().min(1).max(730).default(90),
 	SEED_DEMO: z
 		.enum(['true', 'false'])
 		.default('true')

@@ -102,7 +102,7 @@ export function demoVans(): DemoVan[] {
 	// The vans the demo is built around.
 	Object.assign(vans[0], {
 		story: 'Short-trip round whose regenerations keep being interrupted: heading for the line',
-		simulation: { ...vans[0].simulation, profile: { ...URBAN_PARCEL, shortTripShare: 0.92 }, initialAshMbar: 40, ashMbarPer1000Km: 1.2 }
+		simulation: { ...vans[0].simulation, profile: { ...URBAN_PARCEL, shortTripShare: 0.92 }, initialAshMbar: 40, ashMbarPer1000Km: 1.2, regenFailsFromDay: 541 }
 	});
 	Object.assign(vans[1], {
 		story: 'Engine making extra soot (suspected injector); already past the line',
@@ -118,15 +118,15 @@ export function demoVans(): DemoVan[] {
 	});
 	Object.assign(vans[6], {
 		story: 'Active regenerations inhibited for the last weeks: climbing fast',
-		simulation: { ...vans[6].simulation, regenFailsFromDay: 530, initialAshMbar: 30 }
+		simulation: { ...vans[6].simulation, regenFailsFromDay: 543, initialAshMbar: 30 }
 	});
 	Object.assign(vans[9], {
 		story: 'Heavy short-trip use and high ash: crossing within months',
-		simulation: { ...vans[9].simulation, profile: { ...URBAN_PARCEL, shortTripShare: 0.88, idleShare: 0.3 }, initialAshMbar: 60, ashMbarPer1000Km: 1.4 }
+		simulation: { ...vans[9].simulation, profile: { ...URBAN_PARCEL, shortTripShare: 0.88, idleShare: 0.3 }, initialAshMbar: 55, ashMbarPer1000Km: 2.4 }
 	});
 	Object.assign(vans[12], {
 		story: 'Service regeneration at the workshop after a run of short trips',
-		simulation: { ...vans[12].simulation, serviceRegenOnDays: [330, 470] }
+		simulation: { ...vans[12].simulation, serviceRegenOnDays: [330, 470], initialAshMbar: 60, ashMbarPer1000Km: 2.2 }
 	});
 	Object.assign(vans[15], {
 		story: 'Filter replaced after a blockage a year ago',
