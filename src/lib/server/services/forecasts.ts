@@ -24,6 +24,12 @@ export async function loadEngineInput(vehicleId: number): Promise<{ readings: Pr
 		Reading.findAll({ where: { vehicleId }, order: [['takenAt', 'ASC']], raw: true }),
 		VehicleEvent.findAll({ where: { vehicleId }, order: [['occurredAt', 'ASC']], raw: true })
 	]);
+	for (const r of readings) {
+		// Rows written around the app (a manual SQL fix, a broken import elsewhere) must not
+		// silently bend a forecast: the van is reported as failed with the reason instead.
+		if (Number.isNaN(new Date(r.takenAt).getTime())) throw new Error(`reading #${r.id} has an unreadable time "${String(r.takenAt)}"`);
+		if (!Number.isFinite(r.deltaPMbar)) throw new Error(`reading #${r.id} has no usable pressure`);
+	}
 	return {
 		readings: readings.map((r) => ({
 			at: new Date(r.takenAt),
