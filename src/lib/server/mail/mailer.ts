@@ -43,6 +43,8 @@ function getTransport(): Transporter {
 }
 
 export async function sendMail(mail: OutgoingMail): Promise<void> {
+	// nodemailer writes List-* headers itself from `list`; passed as plain headers they are dropped.
+	const { 'List-Unsubscribe': unsubscribe, ...headers } = mail.headers ?? {};
 	await getTransport().sendMail({
 		from: config.MAIL_FROM,
 		to: mail.to,
@@ -50,7 +52,8 @@ export async function sendMail(mail: OutgoingMail): Promise<void> {
 		text: mail.text,
 		html: mail.html ?? undefined,
 		messageId: mail.messageId,
-		headers: mail.headers,
+		headers,
+		list: unsubscribe ? { unsubscribe: unsubscribe.replace(/^<|>$/g, '') } : undefined,
 		attachments: mail.attachments
 	});
 }
