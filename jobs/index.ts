@@ -1,12 +1,13 @@
 import cron from 'node-cron';
 import { closeDb, getDb, migrate } from '../src/lib/server/db';
 import { runUnderLease } from '../src/lib/server/services/job-runner';
+import { advice } from './advice';
 import { forecast } from './forecast';
 import { housekeeping } from './housekeeping';
 import { outbox } from './outbox';
 import type { Job } from './types';
 
-export const JOBS: Job[] = [forecast, housekeeping, outbox];
+export const JOBS: Job[] = [forecast, advice, housekeeping, outbox];
 
 /** Runs one job now under its lease; logs start, end and summary. Returns null if skipped or failed. */
 export async function runJob(job: Job, now = new Date()) {
@@ -28,22 +29,24 @@ export async function runJob(job: Job, now = new Date()) {
 	}
 }
 
-/** Registers every job once; returns a function that stops them. */
-export function startWorker(timezone = process.env.JOBS_TZ ?? 'Europe/London'): () => void {
+/** Registers every job (or only those named) once; returns a function that stops them. */
+export function startWorker(timezone = process.env.JOBS_TZ ?? 'Europe/London', only: string[] = []): () => void {
 	getDb();
-	const tasks = JOBS.map((job) =>
+	const jobs = only.length ? JOBS.filter((j) => only.includes(j.name)) : JOBS;
+	const tasks = jobs.map((job) =>
 		cron.schedule(job.schedule, () => void runJob(job), { timezone, name: job.name, noOverlap: true })
 	);
-	console.log(`[jobs] scheduled: ${JOBS.map((j) => `${j.name} (${j.schedule})`).join(', ')} in ${timezone}`);
+	console.log(`[jobs] scheduled: ${jobs.map((j) => `${j.name} (${j.schedule})`).join(', ')} in ${timezone}`);
 	return () => tasks.forEach((t) => t.stop());
 }
 
-// Run alone: `tsx jobs/index.ts` keeps the worker going; `--once NAME` runs one job and exits.
+// Run alone: `tsx jobs/index.ts` keeps the worker going; `tsx jobs/index.ts NAME --once` (or
+// `--once NAME`, e.g. `npm run job:forecast -- --once`) runs one job now and exits.
 if (import.meta.url === `file://${process.argv[1]}`) {
 	await migrate();
-	const onceIndex = process.argv.indexOf('--once');
-	if (onceIndex >= 0) {
-		const name = process.argv[onceIndex + 1] ?? '';
+	const args = process.argv.slice(2);
+	if (args.includes('--once')) {
+		const name = args.find((a) => a !== '--once') ?? '';
 		const job = JOBS.find((j) => j.name === name);
 		if (!job) {
 			console.error(`Unknown job "${name}". Jobs: ${JOBS.map((j) => j.name).join(', ')}`);
@@ -53,5 +56,5 @@ if (import.meta.url === `file://${process.argv[1]}`) {
 		await closeDb();
 		process.exit(summary ? 0 : 1);
 	}
-	startWorker();
+	startWorker(undefined, args);
 }

@@ -31,9 +31,18 @@ export const newReadingSchema = z.object({
 });
 export type NewReadingInput = z.infer<typeof newReadingSchema>;
 
+export const NOTIFIABLE_STATUSES = ['over_line', 'crossing_soon', 'watch', 'check_sensor'] as const;
+
 export const unitPreferenceSchema = z.object({
 	name: requiredText(120, 'Name'),
-	unitPreference: z.enum(PRESSURE_UNITS, { error: 'Choose a pressure unit' })
+	unitPreference: z.enum(PRESSURE_UNITS, { error: 'Choose a pressure unit' }),
+	notifyDigest: z.preprocess((v) => v === 'on' || v === 'true', z.boolean()),
+	notifyStatuses: z.preprocess(
+		(v) => (v === undefined ? [] : Array.isArray(v) ? v : [v]),
+		z.array(z.enum(NOTIFIABLE_STATUSES, { error: 'Choose statuses from the list' }))
+	),
+	adviceEmails: z.preprocess((v) => v === 'on' || v === 'true', z.boolean()),
+	crossingWindowDays: formNumber('Crossing window', 1, 365, 'days').pipe(z.number().int('Crossing window must be a whole number of days'))
 });
 export type UnitPreferenceInput = z.infer<typeof unitPreferenceSchema>;
 

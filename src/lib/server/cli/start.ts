@@ -12,7 +12,7 @@ import { seedDemo } from '../services/demo-seed';
 import { startMailSink, type MailSink } from '../mail/sink';
 import { configureMailTransport } from '../mail/mailer';
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../demo/scenario';
-import { startWorker } from '../../../../jobs/index';
+import { JOBS, runJob, startWorker } from '../../../../jobs/index';
 
 const root = process.cwd();
 const buildEntry = path.join(root, 'build', 'index.js');
@@ -42,17 +42,23 @@ function buildIfNeeded(): void {
 
 buildIfNeeded();
 await migrate();
-if (config.SEED_DEMO) {
-	const summary = await seedDemo();
-	if (summary.seeded) console.log(`Loaded the demo fleet: ${summary.vans} vans, ${summary.readings} readings, ${summary.trips} trips.`);
-}
-
 let sink: MailSink | null = null;
 let smtpUrl = config.SMTP_URL;
 if (!smtpUrl) {
 	sink = await startMailSink({ port: config.MAIL_SINK_PORT, dir: path.resolve(config.MAIL_SINK_DIR) });
 	smtpUrl = `smtp://127.0.0.1:${sink.port}`;
 	console.log(`Local mail sink listening on ${smtpUrl} (messages kept in ${sink.dir}).`);
+}
+
+configureMailTransport(smtpUrl);
+
+if (config.SEED_DEMO) {
+	const summary = await seedDemo();
+	if (summary.seeded) {
+		console.log(`Loaded the demo fleet: ${summary.vans} vans, ${summary.readings} readings, ${summary.trips} trips.`);
+		// Forecast straight away so the demo does not wait for the first night.
+		await runJob(JOBS.find((j) => j.name === 'forecast')!);
+	}
 }
 
 const origin = config.ORIGIN ?? `http://localhost:${config.PORT}`;
@@ -68,7 +74,6 @@ const web: ChildProcess = spawn(process.execPath, [buildEntry], {
 		DATABASE_URL: config.DATABASE_URL
 	}
 });
-configureMailTransport(smtpUrl);
 const stopWorker = startWorker();
 
 console.log(`

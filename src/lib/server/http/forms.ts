@@ -28,9 +28,18 @@ export async function parseForm<S extends z.ZodType>(
 	request: Request
 ): Promise<Parsed<z.infer<S>>> {
 	const form = await request.formData();
-	const raw: Record<string, string> = {};
-	for (const [key, value] of form.entries()) if (typeof value === 'string') raw[key] = value;
-	const values = Object.fromEntries(Object.entries(raw).filter(([k]) => !SECRET_FIELDS.test(k)));
+	// A key sent once is a string; sent several times (checkbox groups) it is an array.
+	const raw: Record<string, string | string[]> = {};
+	for (const [key, value] of form.entries()) {
+		if (typeof value !== 'string') continue;
+		const seen = raw[key];
+		raw[key] = seen === undefined ? value : Array.isArray(seen) ? [...seen, value] : [seen, value];
+	}
+	const values = Object.fromEntries(
+		Object.entries(raw)
+			.filter(([k]) => !SECRET_FIELDS.test(k))
+			.map(([k, v]) => [k, Array.isArray(v) ? v.join(',') : v])
+	);
 	const result = schema.safeParse(raw);
 	if (!result.success) {
 		return { ok: false, failure: fail(400, { values, errors: fieldErrors(result.error) }) };

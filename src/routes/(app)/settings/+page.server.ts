@@ -1,13 +1,13 @@
 import { redirect } from '@sveltejs/kit';
 import { requireUser } from '$lib/server/auth/guards';
 import { parseForm } from '$lib/server/http/forms';
-import { updateOwnSettings } from '$lib/server/services/account';
+import { getOwnSettings, updateOwnSettings } from '$lib/server/services/account';
 import { unitPreferenceSchema } from '$lib/validation/vehicle';
 import type { Actions, PageServerLoad } from './$types';
 
-export const load: PageServerLoad = ({ url }) => {
-	requireUser();
-	return { saved: url.searchParams.has('saved') };
+export const load: PageServerLoad = async ({ url }) => {
+	const user = requireUser();
+	return { saved: url.searchParams.has('saved'), settings: await getOwnSettings(user) };
 };
 
 export const actions: Actions = {
