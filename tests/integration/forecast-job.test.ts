@@ -108,8 +108,10 @@ describe('the nightly forecast job', () => {
 		const before = (await readMailbox(mailDir)).length;
 		const port = await freePort();
 		configureMailTransport(`smtp://127.0.0.1:${port}`);
-		// The fine van goes past the line; the next night tells both sides.
-		await make.readings(ids.fine, new Date(now.getTime() + 6 * 86_400_000), 4, 1, () => 345);
+		// A van joins the fleet with a filter already past the line; the next night tells both sides.
+		const fleet = await db.Organisation.findOne({ where: { name: 'Gorsefield Couriers' } });
+		const late = await make.van(fleet!.id, 'GFC 5');
+		await make.readings(late.id, new Date(now.getTime() + 6 * 86_400_000), 12, 3, (i) => 335 + (i % 3) * 4);
 		const nextNight = new Date(now.getTime() + 7 * 86_400_000);
 		const down = (await runJob(nextNight)) as { summary: Record<string, number> };
 		expect(down.summary.messagesQueued).toBe(2);
@@ -125,7 +127,7 @@ describe('the nightly forecast job', () => {
 			expect(after.length).toBe(before + 2);
 			for (const email of ['manager@gorsefield.test', 'tech@hollin.test']) {
 				const newest = (await digestsTo(email)).at(-1)!;
-				expect(vansNamed(newest.text ?? '')).toEqual(['GFC 3']);
+				expect(vansNamed(newest.text ?? '')).toEqual(['GFC 5']);
 			}
 		} finally {
 			await sink.close();
@@ -137,6 +139,6 @@ describe('the nightly forecast job', () => {
 		const before = await db.Forecast.count();
 		const [a, b] = await Promise.all([runJob(at), runJob(at)]);
 		expect([a.skipped, b.skipped].sort()).toEqual([false, true]);
-		expect(await db.Forecast.count()).toBe(before + 3);
+		expect(await db.Forecast.count()).toBe(before + 4);
 	});
 });

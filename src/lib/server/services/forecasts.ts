@@ -4,7 +4,7 @@ import type { PressureReading } from '../../domain/series';
 import type { FilterEvent } from '../../domain/trend';
 import { statusFromForecast, type VanStatus } from '../../domain/status';
 import { config } from '../config';
-import { Forecast, Reading, Vehicle, VehicleEvent } from '../db';
+import { Forecast, Reading, Vehicle, VehicleEvent, getDb } from '../db';
 
 /** What changed for a van between its previous forecast and this one (null: nothing worth telling). */
 export type StatusChange = 'crossed_line' | 'entered_window' | 'recovered' | null;
@@ -18,21 +18,35 @@ export function statusChange(previous: VanStatus | null, next: VanStatus): Statu
 	return null;
 }
 
-/** The engine's view of a van's rows: readings in mbar, events, both in time order. */
-export async function loadEngineInput(vehicleId: number): Promise<{ readings: PressureReading[]; events: FilterEvent[] }> {
+type EngineInput = { readings: PressureReading[]; events: FilterEvent[] };
+
+/** The engine's view of some vans' rows: readings in mbar and events, in time order, per van. */
+export async function loadEngineInputs(vehicleIds: number[]): Promise<Map<number, EngineInput>> {
+	const inputs = new Map<number, EngineInput>(vehicleIds.map((id) => [id, { readings: [], events: [] }]));
+	if (!vehicleIds.length) return inputs;
+	// One query per table for the whole batch: a query per van would cost more than the maths.
 	const [readings, events] = await Promise.all([
-		Reading.findAll({ where: { vehicleId }, order: [['takenAt', 'ASC']], raw: true }),
-		VehicleEvent.findAll({ where: { vehicleId }, order: [['occurredAt', 'ASC']], raw: true })
+		Reading.findAll({
+			attributes: ['id', 'vehicleId', 'takenAt', 'odometerKm', 'deltaPMbar', 'condition', 'rpm', 'airMassFlowKgH', 'exhaustTempC', 'ambientPressureKpa'],
+			where: { vehicleId: { [Op.in]: vehicleIds } },
+			order: [['vehicleId', 'ASC'], ['takenAt', 'ASC']],
+			raw: true
+		}),
+		VehicleEvent.findAll({
+			attributes: ['vehicleId', 'occurredAt', 'kind', 'odometerKm'],
+			where: { vehicleId: { [Op.in]: vehicleIds } },
+			order: [['vehicleId', 'ASC'], ['occurredAt', 'ASC']],
+			raw: true
+		})
 	]);
 	for (const r of readings) {
+		const at = new Date(r.takenAt);
 		// Rows written around the app (a manual SQL fix, a broken import elsewhere) must not
 		// silently bend a forecast: the van is reported as failed with the reason instead.
-		if (Number.isNaN(new Date(r.takenAt).getTime())) throw new Error(`reading #${r.id} has an unreadable time "${String(r.takenAt)}"`);
-		if (!Number.isFinite(r.deltaPMbar)) throw new Error(`reading #${r.id} has no usable pressure`);
-	}
-	return {
-		readings: readings.map((r) => ({
-			at: new Date(r.takenAt),
+		if (Number.isNaN(at.getTime())) throw new VanDataError(r.vehicleId, `reading #${r.id} has an unreadable time "${String(r.takenAt)}"`);
+		if (!Number.isFinite(r.deltaPMbar)) throw new VanDataError(r.vehicleId, `reading #${r.id} has no usable pressure`);
+		inputs.get(r.vehicleId)!.readings.push({
+			at,
 			// A reading without an odometer still counts in time; km-based rates skip it.
 			odometerKm: r.odometerKm ?? Number.NaN,
 			deltaPMbar: r.deltaPMbar,
@@ -41,9 +55,27 @@ export async function loadEngineInput(vehicleId: number): Promise<{ readings: Pr
 			airMassFlowKgH: r.airMassFlowKgH ?? undefined,
 			exhaustTempC: r.exhaustTempC ?? undefined,
 			ambientPressureKpa: r.ambientPressureKpa ?? undefined
-		})),
-		events: events.map((e) => ({ at: new Date(e.occurredAt), kind: e.kind, odometerKm: e.odometerKm ?? undefined }))
-	};
+		});
+	}
+	for (const e of events) {
+		inputs.get(e.vehicleId)!.events.push({ at: new Date(e.occurredAt), kind: e.kind, odometerKm: e.odometerKm ?? undefined });
+	}
+	return inputs;
+}
+
+/** Bad stored data for one van: that van fails, the run goes on. */
+export class VanDataError extends Error {
+	constructor(
+		readonly vehicleId: number,
+		message: string
+	) {
+		super(message);
+		this.name = 'VanDataError';
+	}
+}
+
+export async function loadEngineInput(vehicleId: number): Promise<EngineInput> {
+	return (await loadEngineInputs([vehicleId])).get(vehicleId)!;
 }
 
 export interface StoredForecast {
@@ -54,18 +86,22 @@ export interface StoredForecast {
 	forecast: CrossingForecast;
 }
 
-/** Forecasts one van now and stores the result as the newest row of its history. */
-export async function forecastVehicle(vehicleId: number, now: Date, jobRunId: number | null = null): Promise<StoredForecast> {
-	const { readings, events } = await loadEngineInput(vehicleId);
-	const forecast = forecastCrossing({ readings, events, now });
-	const { status } = statusFromForecast(forecast, now, {
-		soonDays: config.FORECAST_SOON_DAYS,
-		watchDays: config.FORECAST_WATCH_DAYS
-	});
-	const previous = await Forecast.findOne({ where: { vehicleId }, order: [['id', 'DESC']], attributes: ['status'] });
-	const previousStatus = (previous?.status as VanStatus | undefined) ?? null;
-	const change = statusChange(previousStatus, status);
-	await Forecast.create({
+/** Each van's newest stored status, in one query. */
+async function latestStatuses(vehicleIds: number[]): Promise<Map<number, VanStatus>> {
+	if (!vehicleIds.length) return new Map();
+	const newest = (await Forecast.findAll({
+		attributes: ['vehicleId', [getDb().fn('MAX', getDb().col('id')), 'id']],
+		where: { vehicleId: { [Op.in]: vehicleIds } },
+		group: ['vehicleId'],
+		raw: true
+	})) as unknown as { vehicleId: number; id: number }[];
+	if (!newest.length) return new Map();
+	const rows = await Forecast.findAll({ attributes: ['vehicleId', 'status'], where: { id: { [Op.in]: newest.map((n) => n.id) } }, raw: true });
+	return new Map(rows.map((r) => [r.vehicleId, r.status as VanStatus]));
+}
+
+function forecastRow(vehicleId: number, forecast: CrossingForecast, status: VanStatus, previousStatus: VanStatus | null, change: StatusChange, now: Date, jobRunId: number | null) {
+	return {
 		vehicleId,
 		computedAt: now,
 		jobRunId,
@@ -101,8 +137,61 @@ export async function forecastVehicle(vehicleId: number, now: Date, jobRunId: nu
 			growth: forecast.growth,
 			baseline: forecast.baseline
 		}
+	};
+}
+
+interface BatchResult {
+	stored: StoredForecast[];
+	failures: { vehicleId: number; error: string }[];
+}
+
+/**
+ * Forecasts a batch of vans and stores one new history row each, in one transaction. A van
+ * whose data breaks the engine is reported and skipped; the others are still stored.
+ */
+export async function forecastVehicles(vehicleIds: number[], now: Date, jobRunId: number | null = null): Promise<BatchResult> {
+	const result: BatchResult = { stored: [], failures: [] };
+	let inputs: Map<number, EngineInput>;
+	let pending = [...vehicleIds];
+	for (;;) {
+		try {
+			inputs = await loadEngineInputs(pending);
+			break;
+		} catch (err) {
+			if (!(err instanceof VanDataError)) throw err;
+			result.failures.push({ vehicleId: err.vehicleId, error: err.message });
+			pending = pending.filter((id) => id !== err.vehicleId);
+		}
+	}
+	const previous = await latestStatuses(pending);
+	const rows: ReturnType<typeof forecastRow>[] = [];
+	for (const vehicleId of pending) {
+		try {
+			const { readings, events } = inputs.get(vehicleId)!;
+			const forecast = forecastCrossing({ readings, events, now });
+			const { status } = statusFromForecast(forecast, now, {
+				soonDays: config.FORECAST_SOON_DAYS,
+				watchDays: config.FORECAST_WATCH_DAYS
+			});
+			const previousStatus = previous.get(vehicleId) ?? null;
+			const change = statusChange(previousStatus, status);
+			rows.push(forecastRow(vehicleId, forecast, status, previousStatus, change, now, jobRunId));
+			result.stored.push({ vehicleId, status, previousStatus, change, forecast });
+		} catch (err) {
+			result.failures.push({ vehicleId, error: err instanceof Error ? err.message : String(err) });
+		}
+	}
+	await getDb().transaction(async () => {
+		await Forecast.bulkCreate(rows);
 	});
-	return { vehicleId, status, previousStatus, change, forecast };
+	return result;
+}
+
+/** Forecasts one van now and stores the result as the newest row of its history. */
+export async function forecastVehicle(vehicleId: number, now: Date, jobRunId: number | null = null): Promise<StoredForecast> {
+	const { stored, failures } = await forecastVehicles([vehicleId], now, jobRunId);
+	if (failures.length) throw new Error(failures[0].error);
+	return stored[0];
 }
 
 export interface ForecastRunResult {
@@ -128,17 +217,14 @@ export async function forecastAllVehicles(now: Date, jobRunId: number | null = n
 			raw: true
 		});
 		if (!batch.length) break;
-		for (const van of batch) {
-			result.vans++;
-			try {
-				const stored = await forecastVehicle(van.id, now, jobRunId);
-				result.forecast++;
-				if (stored.change) result.changes.push(stored);
-			} catch (err) {
-				const message = err instanceof Error ? err.message : String(err);
-				console.error(`[forecast] van ${van.registration} (#${van.id}) failed: ${message}`);
-				result.failures.push({ vehicleId: van.id, registration: van.registration, error: message });
-			}
+		result.vans += batch.length;
+		const { stored, failures } = await forecastVehicles(batch.map((v) => v.id), now, jobRunId);
+		result.forecast += stored.length;
+		result.changes.push(...stored.filter((s) => s.change));
+		for (const failure of failures) {
+			const registration = batch.find((v) => v.id === failure.vehicleId)?.registration ?? `#${failure.vehicleId}`;
+			console.error(`[forecast] van ${registration} (#${failure.vehicleId}) failed: ${failure.error}`);
+			result.failures.push({ ...failure, registration });
 		}
 		afterId = batch[batch.length - 1].id;
 	}
