@@ -51,7 +51,8 @@ export default defineConfig({
 			ORIGIN: baseURL,
 			MAIL_SINK_PORT: '0',
 			MAIL_SINK_DIR: path.join(dataDir, 'mailbox'),
-			APP_SECRET: 'end-to-end-tests-secret-0123456789abcdef'
+			APP_SECRET: 'end-to-end-tests-secret-0123456789abcdef',
+			STORAGE_DIR: path.join(dataDir, 'uploads')
 		}
 	}
 });

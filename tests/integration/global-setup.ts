@@ -74,6 +74,8 @@ export default async function setup(project: TestProject) {
 			SMTP_URL: smtpUrl,
 			DEV_MAILBOX_DIR: mailDir,
 			APP_SECRET: 'integration-tests-secret-0123456789abcdef',
+			STORAGE_DIR: path.join(dir, 'uploads'),
+			BODY_SIZE_LIMIT: String(300 * 1024 * 1024),
 			NODE_ENV: 'test'
 		},
 		stdio: ['ignore', 'inherit', 'inherit']

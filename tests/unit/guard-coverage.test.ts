@@ -12,7 +12,8 @@ const GUARDS = ['requireUser', 'requireRole', 'requireApiUser'];
 const HTTP_METHODS = ['GET', 'POST', 'PUT', 'PATCH', 'DELETE'];
 /** Public on purpose, with the reason. */
 const PUBLIC_ENDPOINTS: Record<string, string> = {
-	'src/routes/api/health/+server.ts': 'health check for load balancers and benchmarks'
+	'src/routes/api/health/+server.ts': 'health check for load balancers and benchmarks',
+	'src/routes/api/v1/openapi.json/+server.ts': 'the API description, read by integrators before they have a token'
 };
 /** Folders of (app) that every signed-in role may open (not an area of one role). */
 const SHARED_APP_FOLDERS = ['settings'];

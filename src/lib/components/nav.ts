@@ -8,9 +8,14 @@ export interface NavItem {
 export const NAV_BY_ROLE: Record<Role, NavItem[]> = {
 	fleet_manager: [
 		{ href: '/fleet', label: 'Vans' },
-		{ href: '/fleet/people', label: 'Invite' }
+		{ href: '/fleet/people', label: 'Invite' },
+		{ href: '/fleet/imports', label: 'Imports' },
+		{ href: '/fleet/settings', label: 'Fleet settings' }
 	],
-	workshop: [{ href: '/workshop', label: 'Contracted vans' }],
+	workshop: [
+		{ href: '/workshop', label: 'Contracted vans' },
+		{ href: '/workshop/imports', label: 'Imports' }
+	],
 	driver: [{ href: '/driver', label: 'My van' }],
 	admin: [
 		{ href: '/admin', label: 'Organisations and people' },

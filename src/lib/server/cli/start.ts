@@ -71,7 +71,10 @@ const web: ChildProcess = spawn(process.execPath, [buildEntry], {
 		ORIGIN: origin,
 		SMTP_URL: smtpUrl,
 		DEV_MAILBOX_DIR: sink ? sink.dir : '',
-		DATABASE_URL: config.DATABASE_URL
+		DATABASE_URL: config.DATABASE_URL,
+		// adapter-node refuses bodies above BODY_SIZE_LIMIT (512 KB by default) before the app sees
+		// them; captures may be far larger, and each route enforces its own limit while streaming.
+		BODY_SIZE_LIMIT: process.env.BODY_SIZE_LIMIT ?? String(config.CAPTURE_MAX_BYTES + 1024 * 1024)
 	}
 });
 const stopWorker = startWorker();

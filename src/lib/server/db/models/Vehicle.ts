@@ -17,6 +17,8 @@ export class Vehicle extends Model<InferAttributes<Vehicle>, InferCreationAttrib
 	declare referenceFlowM3h: CreationOptional<number | null>;
 	declare driverId: CreationOptional<number | null>;
 	declare archivedAt: CreationOptional<Date | null>;
+	/** The vans-import batch that created this van, so undoing the batch removes it. */
+	declare importBatchId: CreationOptional<number | null>;
 	declare createdAt: CreationOptional<Date>;
 	declare updatedAt: CreationOptional<Date>;
 
@@ -37,6 +39,7 @@ export class Vehicle extends Model<InferAttributes<Vehicle>, InferCreationAttrib
 				referenceFlowM3h: { type: DataTypes.DOUBLE, allowNull: true },
 				driverId: { type: DataTypes.INTEGER, allowNull: true },
 				archivedAt: { type: DataTypes.DATE, allowNull: true },
+				importBatchId: { type: DataTypes.INTEGER, allowNull: true },
 				createdAt: DataTypes.DATE,
 				updatedAt: DataTypes.DATE
 			},

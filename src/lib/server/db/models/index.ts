@@ -1,4 +1,5 @@
 export { ActionToken } from './ActionToken';
+export { ApiRateBucket } from './ApiRateBucket';
 export { ApiToken } from './ApiToken';
 export { AuditLog } from './AuditLog';
 export { Booking } from './Booking';
@@ -6,6 +7,7 @@ export { ColumnMapping } from './ColumnMapping';
 export { Contract } from './Contract';
 export { Depot } from './Depot';
 export { Forecast } from './Forecast';
+export { IdempotencyKey } from './IdempotencyKey';
 export { ImportBatch } from './ImportBatch';
 export { JobLease } from './JobLease';
 export { JobRun } from './JobRun';

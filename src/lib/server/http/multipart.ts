@@ -1,0 +1,56 @@
+import { Readable } from 'node:stream';
+import busboy from 'busboy';
+import { ValidationError } from '../services/errors';
+
+export interface IncomingFile {
+	fileName: string;
+	/** The file's bytes as they arrive; never held whole in memory. */
+	body: AsyncIterable<Uint8Array>;
+}
+
+/**
+ * Reads a multipart form post as a stream: the first file goes to `consume` while it arrives
+ * (so a capture of tens of MB is never buffered), the small text fields are collected.
+ * `consume` must read its stream to the end, even when it refuses the file.
+ * @returns the text fields, and what `consume` returned (undefined when no file was sent)
+ */
+export async function readMultipart<T>(
+	request: Request,
+	consume: (file: IncomingFile, fieldsSoFar: Record<string, string>) => Promise<T>
+): Promise<{ fields: Record<string, string>; result: T | undefined }> {
+	const contentType = request.headers.get('content-type') ?? '';
+	if (!contentType.toLowerCase().startsWith('multipart/form-data') || !request.body) {
+		throw new ValidationError('Send the file as a form upload (multipart/form-data).', {
+			file: 'Choose a file'
+		});
+	}
+	const parser = busboy({
+		headers: { 'content-type': contentType },
+		limits: { files: 1, fields: 40, fieldSize: 64 * 1024 }
+	});
+	const fields: Record<string, string> = {};
+	let work: Promise<T> | undefined;
+	parser.on('field', (name, value) => {
+		fields[name] = value;
+	});
+	parser.on('file', (_name, stream, info) => {
+		if (work || !info.filename) {
+			stream.resume();
+			return;
+		}
+		work = consume({ fileName: info.filename, body: stream }, { ...fields });
+		// If the consumer gave up early, keep the rest flowing so the form's other parts arrive
+		work.catch(() => stream.resume());
+	});
+	const finished = new Promise<void>((resolve, reject) => {
+		parser.on('close', () => resolve());
+		parser.on('error', reject);
+	});
+	const source = Readable.fromWeb(
+		request.body as import('node:stream/web').ReadableStream<Uint8Array>
+	);
+	source.on('error', (err) => parser.destroy(err));
+	source.pipe(parser);
+	await finished;
+	return { fields, result: work ? await work : undefined };
+}
