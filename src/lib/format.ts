@@ -1,3 +1,6 @@
+import { format } from 'date-fns';
+import { TZDate } from '@date-fns/tz';
+import { enGB, enUS, de, fr, nl } from 'date-fns/locale';
 import { formatPressure, type PressureUnit } from './domain/units';
 
 /** Pressure in the viewer's preferred unit; readings are stored in mbar. */
@@ -6,31 +9,22 @@ export function showPressure(mbar: number | null | undefined, unit: PressureUnit
 	return formatPressure(mbar, unit);
 }
 
-export function showDate(
-	value: string | Date | null | undefined,
-	locale = 'en-GB',
-	timeZone = 'Europe/London'
-): string {
-	if (!value) return '—';
-	return new Intl.DateTimeFormat(locale, { day: 'numeric', month: 'short', year: 'numeric', timeZone }).format(
-		new Date(value)
-	);
+const LOCALES = { 'en-GB': enGB, 'en-US': enUS, de, fr, nl } as const;
+const localeOf = (tag: string) => LOCALES[tag as keyof typeof LOCALES] ?? LOCALES[tag.split('-')[0] as keyof typeof LOCALES] ?? enGB;
+
+/** A date-fns date in the viewer's time zone, so a reading late at night lands on the right day. */
+function zoned(value: string | Date, timeZone: string): TZDate {
+	return new TZDate(new Date(value).getTime(), timeZone);
 }
 
-export function showDateTime(
-	value: string | Date | null | undefined,
-	locale = 'en-GB',
-	timeZone = 'Europe/London'
-): string {
+export function showDate(value: string | Date | null | undefined, locale = 'en-GB', timeZone = 'Europe/London'): string {
 	if (!value) return '—';
-	return new Intl.DateTimeFormat(locale, {
-		day: 'numeric',
-		month: 'short',
-		year: 'numeric',
-		hour: '2-digit',
-		minute: '2-digit',
-		timeZone
-	}).format(new Date(value));
+	return format(zoned(value, timeZone), 'PP', { locale: localeOf(locale) });
+}
+
+export function showDateTime(value: string | Date | null | undefined, locale = 'en-GB', timeZone = 'Europe/London'): string {
+	if (!value) return '—';
+	return format(zoned(value, timeZone), 'PP, p', { locale: localeOf(locale) });
 }
 
 export function showNumber(value: number | null | undefined, decimals = 0, locale = 'en-GB'): string {

@@ -3,8 +3,8 @@ import { ACCOUNTS, signIn } from './helpers';
 
 test.describe('each role signs in and lands in its own area', () => {
 	const cases = [
-		{ email: ACCOUNTS.fleetManager.email, url: /\/fleet$/, heading: 'Your vans' },
-		{ email: ACCOUNTS.workshop.email, url: /\/workshop$/, heading: 'Contracted vans' },
+		{ email: ACCOUNTS.fleetManager.email, url: /\/fleet$/, heading: 'Risk board' },
+		{ email: ACCOUNTS.workshop.email, url: /\/workshop$/, heading: 'Workshop queue' },
 		{ email: ACCOUNTS.driver.email, url: /\/driver$/, heading: 'My van' },
 		{ email: ACCOUNTS.admin.email, url: /\/admin$/, heading: 'Organisations and people' }
 	];
@@ -45,9 +45,11 @@ test('a signed-out visitor is sent to sign in and comes back to the page asked f
 
 test('the fleet manager finds a van by registration and opens its page', async ({ page }) => {
 	await signIn(page, ACCOUNTS.fleetManager.email);
-	await page.getByLabel('Find a van by registration').fill('LKD 404');
+	await page.getByLabel('Registration').fill('LKD 404');
 	await page.getByRole('button', { name: 'Search' }).click();
-	await page.getByRole('link', { name: 'LKD 404' }).click();
+	await expect(page).toHaveURL(/q=LKD\+404/);
+	await expect(page.getByRole('status').filter({ hasText: /^1 van$/ })).toBeVisible();
+	await page.getByRole('link', { name: 'LKD 404' }).first().click();
 	await expect(page.getByRole('heading', { level: 1, name: 'LKD 404' })).toBeVisible();
 	await expect(page.getByRole('table', { name: /Differential pressure readings/ })).toBeVisible();
 });

@@ -27,6 +27,8 @@ function associate(): void {
 	Vehicle.hasMany(Trip, { foreignKey: 'vehicleId', as: 'trips' });
 	Trip.belongsTo(Vehicle, { foreignKey: 'vehicleId', as: 'vehicle' });
 	Vehicle.hasMany(Forecast, { foreignKey: 'vehicleId', as: 'forecasts' });
+	Vehicle.hasOne(models.VehicleStatus, { foreignKey: 'vehicleId', as: 'current' });
+	models.VehicleStatus.belongsTo(Vehicle, { foreignKey: 'vehicleId', as: 'vehicle' });
 	Forecast.belongsTo(Vehicle, { foreignKey: 'vehicleId', as: 'vehicle' });
 	Booking.belongsTo(Vehicle, { foreignKey: 'vehicleId', as: 'vehicle' });
 	Booking.belongsTo(Organisation, { foreignKey: 'workshopId', as: 'workshop' });

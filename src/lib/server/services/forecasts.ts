@@ -2,9 +2,9 @@ import { Op } from 'sequelize';
 import { forecastCrossing, type CrossingForecast } from '../../domain/forecast';
 import type { PressureReading } from '../../domain/series';
 import type { FilterEvent } from '../../domain/trend';
-import { statusFromForecast, type VanStatus } from '../../domain/status';
+import { STATUS_RANK, statusFromForecast, type VanStatus } from '../../domain/status';
 import { config } from '../config';
-import { Forecast, Reading, Vehicle, VehicleEvent, getDb } from '../db';
+import { Forecast, Reading, Vehicle, VehicleEvent, VehicleStatus, getDb } from '../db';
 
 /** What changed for a van between its previous forecast and this one (null: nothing worth telling). */
 export type StatusChange = 'crossed_line' | 'entered_window' | 'recovered' | null;
@@ -86,17 +86,10 @@ export interface StoredForecast {
 	forecast: CrossingForecast;
 }
 
-/** Each van's newest stored status, in one query. */
+/** Each van's current status, in one query. */
 async function latestStatuses(vehicleIds: number[]): Promise<Map<number, VanStatus>> {
 	if (!vehicleIds.length) return new Map();
-	const newest = (await Forecast.findAll({
-		attributes: ['vehicleId', [getDb().fn('MAX', getDb().col('id')), 'id']],
-		where: { vehicleId: { [Op.in]: vehicleIds } },
-		group: ['vehicleId'],
-		raw: true
-	})) as unknown as { vehicleId: number; id: number }[];
-	if (!newest.length) return new Map();
-	const rows = await Forecast.findAll({ attributes: ['vehicleId', 'status'], where: { id: { [Op.in]: newest.map((n) => n.id) } }, raw: true });
+	const rows = await VehicleStatus.findAll({ attributes: ['vehicleId', 'status'], where: { vehicleId: { [Op.in]: vehicleIds } }, raw: true });
 	return new Map(rows.map((r) => [r.vehicleId, r.status as VanStatus]));
 }
 
@@ -137,6 +130,29 @@ function forecastRow(vehicleId: number, forecast: CrossingForecast, status: VanS
 			growth: forecast.growth,
 			baseline: forecast.baseline
 		}
+	};
+}
+
+/** Board sort key: most urgent status first, then the soonest expected crossing. */
+export function urgencyKey(status: VanStatus, crossingExpected: Date | null, now: Date): number {
+	const days = crossingExpected === null ? 99_999 : Math.min(99_999, Math.max(0, Math.floor((crossingExpected.getTime() - now.getTime()) / 86_400_000)));
+	return STATUS_RANK[status] * 100_000 + days;
+}
+
+function currentStatusRow(row: ReturnType<typeof forecastRow>) {
+	return {
+		vehicleId: row.vehicleId,
+		status: row.status,
+		urgency: urgencyKey(row.status, row.crossingExpected, row.computedAt),
+		noCrossing: row.crossingExpected ? 0 : 1,
+		confidence: row.confidence,
+		latestMbar: row.latestMbar,
+		concernLineMbar: row.concernLineMbar,
+		growthMbarPerWeek: row.growthMbarPerWeek,
+		crossingEarliest: row.crossingEarliest,
+		crossingExpected: row.crossingExpected,
+		crossingLatest: row.crossingLatest,
+		computedAt: row.computedAt
 	};
 }
 
@@ -183,6 +199,9 @@ export async function forecastVehicles(vehicleIds: number[], now: Date, jobRunId
 	}
 	await getDb().transaction(async () => {
 		await Forecast.bulkCreate(rows);
+		await VehicleStatus.bulkCreate(rows.map(currentStatusRow), {
+			updateOnDuplicate: ['status', 'urgency', 'noCrossing', 'confidence', 'latestMbar', 'concernLineMbar', 'growthMbarPerWeek', 'crossingEarliest', 'crossingExpected', 'crossingLatest', 'computedAt']
+		});
 	});
 	return result;
 }

@@ -23,4 +23,5 @@ export { Upload } from './Upload';
 export { User } from './User';
 export { Vehicle } from './Vehicle';
 export { VehicleEvent } from './VehicleEvent';
+export { VehicleStatus } from './VehicleStatus';
 export { VisitReport } from './VisitReport';

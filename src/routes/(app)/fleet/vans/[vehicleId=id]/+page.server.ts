@@ -1,9 +1,34 @@
+import { redirect } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/auth/guards';
 import { orHttpError } from '$lib/server/http/errors';
-import { getVehicleStory } from '$lib/server/services/vehicles';
-import type { PageServerLoad } from './$types';
+import { parseForm } from '$lib/server/http/forms';
+import { updateVehicleDetails } from '$lib/server/services/vehicles';
+import { getVanStory } from '$lib/server/services/van-story';
+import { listSensorTests } from '$lib/server/services/sensor-tests';
+import { SERIES_KINDS, type SeriesKind } from '$lib/domain/series';
+import { vehicleDetailsSchema } from '$lib/validation/vehicle';
+import type { Actions, PageServerLoad } from './$types';
 
-export const load: PageServerLoad = async ({ params }) => {
+const seriesParam = (url: URL) => {
+	const s = url.searchParams.get('series');
+	return SERIES_KINDS.includes(s as SeriesKind) ? (s as SeriesKind) : undefined;
+};
+
+export const load: PageServerLoad = async ({ params, url }) => {
 	const user = requireRole('fleet_manager');
-	return { story: await orHttpError(() => getVehicleStory(user, Number(params.vehicleId))) };
+	const vehicleId = Number(params.vehicleId);
+	const [story, sensorTests] = await orHttpError(() =>
+		Promise.all([getVanStory(user, vehicleId, { series: seriesParam(url) }), listSensorTests(user, vehicleId)])
+	);
+	return { story, sensorTests, saved: url.searchParams.has('saved') };
+};
+
+export const actions: Actions = {
+	save: async ({ params, request }) => {
+		const user = requireRole('fleet_manager');
+		const parsed = await parseForm(vehicleDetailsSchema, request);
+		if (!parsed.ok) return parsed.failure;
+		await orHttpError(() => updateVehicleDetails(user, Number(params.vehicleId), parsed.data));
+		redirect(303, `/fleet/vans/${params.vehicleId}?saved`);
+	}
 };

@@ -1,9 +1,19 @@
 import { requireRole } from '$lib/server/auth/guards';
 import { orHttpError } from '$lib/server/http/errors';
-import { getVehicleStory } from '$lib/server/services/vehicles';
+import { getVanStory } from '$lib/server/services/van-story';
+import { listSensorTests } from '$lib/server/services/sensor-tests';
+import { SERIES_KINDS, type SeriesKind } from '$lib/domain/series';
 import type { PageServerLoad } from './$types';
 
-export const load: PageServerLoad = async ({ params }) => {
+export const load: PageServerLoad = async ({ params, url }) => {
 	const user = requireRole('workshop');
-	return { story: await orHttpError(() => getVehicleStory(user, Number(params.vehicleId))) };
+	const vehicleId = Number(params.vehicleId);
+	const series = url.searchParams.get('series');
+	const [story, sensorTests] = await orHttpError(() =>
+		Promise.all([
+			getVanStory(user, vehicleId, { series: SERIES_KINDS.includes(series as SeriesKind) ? (series as SeriesKind) : undefined }),
+			listSensorTests(user, vehicleId)
+		])
+	);
+	return { story, sensorTests };
 };
