@@ -13,7 +13,7 @@ export const NAV_BY_ROLE: Record<Role, NavItem[]> = {
 		{ href: '/fleet/settings', label: 'Fleet settings' }
 	],
 	workshop: [
-		{ href: '/workshop', label: 'Contracted vans' },
+		{ href: '/workshop', label: 'Queue' },
 		{ href: '/workshop/imports', label: 'Imports' }
 	],
 	driver: [{ href: '/driver', label: 'My van' }],
