@@ -126,11 +126,20 @@ export function demoVans(): DemoVan[] {
 	});
 	Object.assign(vans[12], {
 		story: 'Service regeneration at the workshop after a run of short trips',
-		simulation: { ...vans[12].simulation, serviceRegenOnDays: [330, 470], initialAshMbar: 60, ashMbarPer1000Km: 2.2 }
+		simulation: { ...vans[12].simulation, serviceRegenOnDays: [330, 470], initialAshMbar: 45, ashMbarPer1000Km: 1.6 }
 	});
 	Object.assign(vans[15], {
 		story: 'Filter replaced after a blockage a year ago',
 		simulation: { ...vans[15].simulation, filterReplacedOnDay: 180, initialAshMbar: 80 }
+	});
+	Object.assign(vans[20], {
+		story: 'Full-ash oil for two years: the baseline is climbing towards the line',
+		oilGrade: '10W-40 full-ash',
+		simulation: { ...vans[20].simulation, initialAshMbar: 35, ashMbarPer1000Km: 1.7 }
+	});
+	Object.assign(vans[30], {
+		story: 'High oil consumption: ash builds faster than on its sister vans',
+		simulation: { ...vans[30].simulation, initialAshMbar: 40, ashMbarPer1000Km: 2.0 }
 	});
 	for (let i = 0; i < 5; i++) {
 		vans.push({
