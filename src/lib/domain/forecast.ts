@@ -176,8 +176,6 @@ export function forecastCrossing(input: ForecastInput): CrossingForecast {
 	const epoch = findEpoch(series.points, events, now);
 	const points = epoch.points;
 	const last = points.length ? points[points.length - 1] : null;
-	const x = (at: Date) => (at.getTime() - nowMs) / MS_PER_DAY;
-	const toDate = (days: number) => new Date(nowMs + days * MS_PER_DAY);
 
 	const result: CrossingForecast = {
 		state: 'insufficient_data',
@@ -212,27 +210,25 @@ export function forecastCrossing(input: ForecastInput): CrossingForecast {
 	const since = epoch.startAt
 		? ` since the ${words(epoch.startedBy ?? '')} on ${day(epoch.startAt)}`
 		: '';
-	const insufficient = (why: string): CrossingForecast => {
-		result.confidence = { grade: 'rough', reason: why };
-		result.explanation = `Not enough data: ${why}`;
-		return result;
-	};
 
 	// ── Not enough data ──
 	if (points.length < o.minReadings) {
 		return insufficient(
+			result,
 			`${points.length} comparable reading${points.length === 1 ? '' : 's'} (${series.kind.replace('_', ' ')})${since}; a forecast needs at least ${o.minReadings}.`
 		);
 	}
 	const spanDays = (points[points.length - 1].at.getTime() - points[0].at.getTime()) / MS_PER_DAY;
 	if (spanDays < o.minSpanDays) {
 		return insufficient(
+			result,
 			`the ${points.length} readings${since} span ${spanDays.toFixed(0)} days; a forecast needs at least ${o.minSpanDays}.`
 		);
 	}
-	const ageDays = -x((last as { at: Date }).at);
+	const ageDays = -daysFrom((last as { at: Date }).at, nowMs);
 	if (ageDays > o.maxReadingAgeDays) {
 		return insufficient(
+			result,
 			`the last comparable reading is ${ageDays.toFixed(0)} days old; a forecast needs one within ${o.maxReadingAgeDays}.`
 		);
 	}
@@ -267,8 +263,6 @@ export function forecastCrossing(input: ForecastInput): CrossingForecast {
 		// Regenerations per distance tell the soot rate even when readings are too sparse to.
 		kmBetween: completed >= 2 && epochKm > 0 ? epochKm / completed : null
 	};
-	const per1000Km = (perDay: number) =>
-		kmPerDay !== null && kmPerDay > 0.1 ? (perDay / kmPerDay) * 1000 : null;
 	const ctx = { result, o, now, concernMbar, since, lastPoint: last as SeriesPoint };
 
 	const growth = fitGrowth(split.cycles, now, o);
@@ -279,13 +273,18 @@ export function forecastCrossing(input: ForecastInput): CrossingForecast {
 			regenerations >= split.cycles.length / 2 ? fitCloud(points, now, o.lookbackDays) : null;
 		if (cloud === null || cloud.line.df < 2) {
 			return insufficient(
+				result,
 				`regenerations split the ${points.length} readings${since} into cycles too short to measure growth (fewer than two readings each, or too few in all).`
 			);
 		}
 		const slope = cloud.line.slope;
 		result.mode = 'frequent_regenerations';
 		result.growth = null;
-		result.baseline = { mbarPerDay: slope, mbarPer1000Km: per1000Km(slope), cycles: regenerations };
+		result.baseline = {
+			mbarPerDay: slope,
+			mbarPer1000Km: per1000Km(slope, kmPerDay),
+			cycles: regenerations
+		};
 		const target = { ...cloud.line, anchorY: cloud.line.anchorY + cloud.upperEdgeMbar };
 		result.currentLevelMbar = target.anchorY + slope * (0 - target.anchorX);
 		const growthNote =
@@ -312,6 +311,7 @@ export function forecastCrossing(input: ForecastInput): CrossingForecast {
 	const currentKnown = current.points.length > 0 || growth.model === 'anchored';
 	if (!currentKnown && growth.peaks.length === 0) {
 		return insufficient(
+			result,
 			`a regeneration was reported after the last reading and there is no completed cycle to go by; the next reading will start the new cycle.`
 		);
 	}
@@ -319,7 +319,7 @@ export function forecastCrossing(input: ForecastInput): CrossingForecast {
 		model: growth.model,
 		mbarPerDay: growth.slopeMbarPerDay,
 		mbarPerWeek: growth.slopeMbarPerDay * 7,
-		mbarPer1000Km: per1000Km(growth.slopeMbarPerDay),
+		mbarPer1000Km: per1000Km(growth.slopeMbarPerDay, kmPerDay),
 		theilSenMbarPerDay: growth.theilSenMbarPerDay,
 		stdErrMbarPerDay: growth.slopeStdErrMbarPerDay,
 		residualStdDevMbar: growth.residualStdDevMbar,
@@ -328,11 +328,10 @@ export function forecastCrossing(input: ForecastInput): CrossingForecast {
 		screenedOut: growth.screenedOut.length
 	};
 	const line = growth.currentLine;
-	const levelAt = (xDays: number) => line.anchorY + line.slope * (xDays - line.anchorX);
-	result.currentLevelMbar = currentKnown ? levelAt(0) : null;
+	result.currentLevelMbar = currentKnown ? lineLevel(line, 0) : null;
 	const baseline = baselineTrend(growth);
 	if (baseline) {
-		result.baseline = { ...baseline, mbarPer1000Km: per1000Km(baseline.mbarPerDay) };
+		result.baseline = { ...baseline, mbarPer1000Km: per1000Km(baseline.mbarPerDay, kmPerDay) };
 	}
 	const recentPeaks = growth.peaks.slice(-6);
 	const typicalPeak = recentPeaks.length ? median(recentPeaks.map((p) => p.peakMbar)) : null;
@@ -341,7 +340,7 @@ export function forecastCrossing(input: ForecastInput): CrossingForecast {
 	// ── Mode ──
 	const cyclePoints = current.points;
 	const lastInCycle = cyclePoints.length ? cyclePoints[cyclePoints.length - 1] : null;
-	const levelAtLast = lastInCycle ? levelAt(x(lastInCycle.at)) : levelAt(0);
+	const levelAtLast = lineLevel(line, lastInCycle ? daysFrom(lastInCycle.at, nowMs) : 0);
 	let mode: ForecastMode;
 	if (typicalPeak === null) mode = 'single_cycle';
 	else {
@@ -359,7 +358,7 @@ export function forecastCrossing(input: ForecastInput): CrossingForecast {
 	let target: LineWithError | null = line;
 	let modeNote = '';
 	if (mode === 'keeping_up' && typicalPeak !== null && typicalPeak < concernMbar) {
-		target = peakLine(growth, x);
+		target = peakLine(growth, nowMs);
 		modeNote =
 			target === null
 				? `Regenerations are keeping up: peaks around ${typicalPeak.toFixed(0)} mbar, ${(concernMbar - typicalPeak).toFixed(0)} mbar below the line; too few cycles to trend the peaks.`
@@ -410,11 +409,9 @@ interface ConcludeInput {
 function conclude(ctx: ConcludeContext, input: ConcludeInput): CrossingForecast {
 	const { result, o, now, concernMbar, lastPoint } = ctx;
 	const nowMs = now.getTime();
-	const toDate = (days: number) => new Date(nowMs + days * MS_PER_DAY);
-	const lastX = (lastPoint.at.getTime() - nowMs) / MS_PER_DAY;
+	const lastX = daysFrom(lastPoint.at, nowMs);
 	const levelPct = `${Math.round(o.level * 100)} %`;
 	const lastText = `${lastPoint.deltaPMbar.toFixed(0)} mbar on ${day(lastPoint.at)}`;
-	const say = (first: string) => [first, ...input.notes].filter(Boolean).join(' ');
 	const { target, cyclePoints } = input;
 
 	// ── Over the line already? ──
@@ -435,7 +432,8 @@ function conclude(ctx: ConcludeContext, input: ConcludeInput): CrossingForecast 
 				? `the last ${lastTwo.length} reading${lastTwo.length === 1 ? ' is' : 's are'} at or above ${concernMbar} mbar.`
 				: `the last reading and the fitted level are at or above ${concernMbar} mbar.`
 		};
-		result.explanation = say(
+		result.explanation = withNotes(
+			input.notes,
 			`Over the line: ${over} recent reading${over === 1 ? '' : 's'} at or above ${concernMbar} mbar, the last ${lastText}.`
 		);
 		return result;
@@ -451,7 +449,8 @@ function conclude(ctx: ConcludeContext, input: ConcludeInput): CrossingForecast 
 					? `the level is not rising (${(target.slope * 7).toFixed(1)} mbar/week).`
 					: 'regenerations keep up, but there are too few completed cycles to trend their peaks.'
 		};
-		result.explanation = say(
+		result.explanation = withNotes(
+			input.notes,
 			`No crossing of ${concernMbar} mbar expected within ${o.horizonDays} days.`
 		);
 		return result;
@@ -468,13 +467,14 @@ function conclude(ctx: ConcludeContext, input: ConcludeInput): CrossingForecast 
 	if (expectedX <= 0) {
 		// The trend has passed the line since the last reading: treat as over, and say why.
 		result.state = 'over_line';
-		result.crossing.expected = toDate(expectedX);
+		result.crossing.expected = dateAt(nowMs, expectedX);
 		result.confidence = {
 			grade: 'fair',
-			reason: `no reading is over the line yet, but the trend reached ${concernMbar} mbar on ${day(toDate(expectedX))}.`
+			reason: `no reading is over the line yet, but the trend reached ${concernMbar} mbar on ${day(dateAt(nowMs, expectedX))}.`
 		};
-		result.explanation = say(
-			`Probably over the line: the trend reached ${concernMbar} mbar on ${day(toDate(expectedX))}, after the last reading (${lastText}). Take a reading to confirm.`
+		result.explanation = withNotes(
+			input.notes,
+			`Probably over the line: the trend reached ${concernMbar} mbar on ${day(dateAt(nowMs, expectedX))}, after the last reading (${lastText}). Take a reading to confirm.`
 		);
 		return result;
 	}
@@ -482,7 +482,7 @@ function conclude(ctx: ConcludeContext, input: ConcludeInput): CrossingForecast 
 	const earliestX = inverse.lower === null ? null : Math.max(0, inverse.lower);
 	const latestX = inverse.upper;
 	result.crossing.earliest =
-		earliestX === null || earliestX > o.horizonDays ? null : toDate(earliestX);
+		earliestX === null || earliestX > o.horizonDays ? null : dateAt(nowMs, earliestX);
 	if (expectedX > o.horizonDays) {
 		result.state = 'no_crossing';
 		result.crossing.beyondHorizon = true;
@@ -490,17 +490,18 @@ function conclude(ctx: ConcludeContext, input: ConcludeInput): CrossingForecast 
 		result.confidence = {
 			grade: earliestInside ? 'fair' : input.grading.readingsUsed >= 12 ? 'firm' : 'fair',
 			reason: earliestInside
-				? `the expected crossing (${day(toDate(expectedX))}) lies beyond the ${o.horizonDays}-day horizon, but the ${levelPct} interval starts on ${day(result.crossing.earliest as Date)}.`
+				? `the expected crossing (${day(dateAt(nowMs, expectedX))}) lies beyond the ${o.horizonDays}-day horizon, but the ${levelPct} interval starts on ${day(result.crossing.earliest as Date)}.`
 				: `even the earliest likely crossing (${levelPct} interval) lies beyond the ${o.horizonDays}-day horizon.`
 		};
-		result.explanation = say(
-			`No crossing of ${concernMbar} mbar expected within ${o.horizonDays} days (the trend reaches it around ${day(toDate(expectedX))}).`
+		result.explanation = withNotes(
+			input.notes,
+			`No crossing of ${concernMbar} mbar expected within ${o.horizonDays} days (the trend reaches it around ${day(dateAt(nowMs, expectedX))}).`
 		);
 		return result;
 	}
 	result.state = 'crossing';
-	result.crossing.expected = toDate(expectedX);
-	result.crossing.latest = latestX === null ? null : toDate(latestX);
+	result.crossing.expected = dateAt(nowMs, expectedX);
+	result.crossing.latest = latestX === null ? null : dateAt(nowMs, latestX);
 	result.confidence = gradeCrossing({
 		...input.grading,
 		earliestX,
@@ -512,9 +513,10 @@ function conclude(ctx: ConcludeContext, input: ConcludeInput): CrossingForecast 
 	const interval =
 		latestX === null
 			? `${levelPct} interval from ${day(result.crossing.earliest ?? now)}, open-ended: growth not clearly above zero`
-			: `${levelPct} interval ${day(result.crossing.earliest ?? now)} to ${day(toDate(latestX))}`;
-	result.explanation = say(
-		`Expected to reach ${concernMbar} mbar on ${day(toDate(expectedX))} (${interval}).`
+			: `${levelPct} interval ${day(result.crossing.earliest ?? now)} to ${day(dateAt(nowMs, latestX))}`;
+	result.explanation = withNotes(
+		input.notes,
+		`Expected to reach ${concernMbar} mbar on ${day(dateAt(nowMs, expectedX))} (${interval}).`
 	);
 	return result;
 }
@@ -568,10 +570,10 @@ function baselineTrend(growth: GrowthFit): { mbarPerDay: number; cycles: number 
  * Least-squares line through the completed cycles' peaks (x in days relative to now), from
  * 3+ peaks spanning 28+ days; null otherwise.
  */
-function peakLine(growth: GrowthFit, x: (at: Date) => number): LineWithError | null {
+function peakLine(growth: GrowthFit, nowMs: number): LineWithError | null {
 	const peaks = growth.peaks;
 	if (peaks.length < 3) return null;
-	const xs = peaks.map((p) => x(p.at));
+	const xs = peaks.map((p) => daysFrom(p.at, nowMs));
 	if (xs[xs.length - 1] - xs[0] < 28) return null;
 	try {
 		return lineFromOls(
@@ -641,4 +643,36 @@ function words(kind: string): string {
 
 function stripUndefined<T extends object>(value: T): T {
 	return Object.fromEntries(Object.entries(value).filter(([, v]) => v !== undefined)) as T;
+}
+
+// Module-level helpers rather than closures inside forecastCrossing: the engine runs once per
+// van, and a closure per call (each wrapped for its name under tsx) adds up over a fleet.
+
+function insufficient(result: CrossingForecast, why: string): CrossingForecast {
+	result.confidence = { grade: 'rough', reason: why };
+	result.explanation = `Not enough data: ${why}`;
+	return result;
+}
+
+/** Days from `nowMs` to `at` (negative in the past). */
+function daysFrom(at: Date, nowMs: number): number {
+	return (at.getTime() - nowMs) / MS_PER_DAY;
+}
+
+function dateAt(nowMs: number, days: number): Date {
+	return new Date(nowMs + days * MS_PER_DAY);
+}
+
+/** The line's level at x, mbar. */
+function lineLevel(line: LineWithError, x: number): number {
+	return line.anchorY + line.slope * (x - line.anchorX);
+}
+
+function per1000Km(perDay: number, kmPerDay: number | null): number | null {
+	return kmPerDay !== null && kmPerDay > 0.1 ? (perDay / kmPerDay) * 1000 : null;
+}
+
+/** The first sentence followed by the non-empty notes. */
+function withNotes(notes: readonly string[], first: string): string {
+	return [first, ...notes].filter(Boolean).join(' ');
 }

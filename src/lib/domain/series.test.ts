@@ -1,3 +1,4 @@
+import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import {
 	airDensityKgM3,
@@ -5,6 +6,7 @@ import {
 	chooseComparableSeries,
 	DEFAULT_REFERENCE_FLOW_M3S,
 	scaleToReferenceFlow,
+	sortedByTime,
 	volumetricFlowM3s,
 	type PressureReading
 } from './series';
@@ -111,5 +113,38 @@ describe('comparable series', () => {
 		expect(chosen.rule).toMatch(/5 Δp scaled/);
 		expect(chooseComparableSeries(idle).kind).toBe('idle');
 		expect(chooseComparableSeries(idle).limit.concernMbar).toBe(120);
+	});
+});
+
+describe('sortedByTime', () => {
+	const items = fc.array(
+		fc.record({
+			// Few distinct times, so ties (which a stable sort keeps in order) are common.
+			day: fc.integer({ min: 0, max: 12 }),
+			id: fc.integer()
+		}),
+		{ maxLength: 40 }
+	);
+	const withDates = (list: { day: number; id: number }[]) =>
+		list.map((r) => ({ at: new Date(Date.UTC(2024, 0, 1 + r.day)), id: r.id }));
+
+	it('gives the same order as a plain stable sort', () => {
+		fc.assert(
+			fc.property(items, (list) => {
+				const expected = withDates(list).sort((a, b) => a.at.getTime() - b.at.getTime());
+				expect(sortedByTime(withDates(list))).toEqual(expected);
+			})
+		);
+	});
+
+	it('returns an already sorted list itself, untouched', () => {
+		fc.assert(
+			fc.property(items, (list) => {
+				const sorted = withDates([...list].sort((a, b) => a.day - b.day));
+				const before = [...sorted];
+				expect(sortedByTime(sorted)).toBe(sorted);
+				expect(sorted).toEqual(before);
+			})
+		);
 	});
 });

@@ -174,9 +174,6 @@ export function buildSeries(
 ): ComparableSeries {
 	const limit = { ...DEFAULT_LIMITS[kind], ...options.limits?.[kind] };
 	const skipped: { reason: string; count: number }[] = [];
-	const skip = (reason: string, count: number) => {
-		if (count > 0) skipped.push({ reason, count });
-	};
 	let points: SeriesPoint[] = [];
 	let rpm: number | undefined;
 
@@ -185,8 +182,12 @@ export function buildSeries(
 		const minRatio = options.minFlowRatio ?? 0.4;
 		const maxRatio = options.maxFlowRatio ?? 2;
 		let outside = 0;
+		let telemetryWithoutFlow = 0;
 		for (const r of readings) {
-			if (r.airMassFlowKgH === undefined || r.exhaustTempC === undefined) continue;
+			if (r.airMassFlowKgH === undefined || r.exhaustTempC === undefined) {
+				if (r.condition === 'telemetry') telemetryWithoutFlow++;
+				continue;
+			}
 			if (r.airMassFlowKgH <= 0) continue;
 			const flowM3s = volumetricFlowM3s(
 				r.airMassFlowKgH,
@@ -206,29 +207,41 @@ export function buildSeries(
 				measuredMbar: r.deltaPMbar
 			});
 		}
-		skip('flow outside the window where scaling holds', outside);
-		const telemetryWithoutFlow = readings.filter(
-			(r) =>
-				r.condition === 'telemetry' &&
-				(r.airMassFlowKgH === undefined || r.exhaustTempC === undefined)
-		).length;
-		skip('telemetry without mass flow or exhaust temperature', telemetryWithoutFlow);
+		addSkipped(skipped, 'flow outside the window where scaling holds', outside);
+		addSkipped(skipped, 'telemetry without mass flow or exhaust temperature', telemetryWithoutFlow);
 	} else if (kind === 'raised_idle') {
 		const candidates = readings.filter((r) => r.condition === 'raised_idle');
 		const withRpm = candidates.filter((r) => r.rpm !== undefined && r.rpm > 0);
-		skip('raised idle without a stated rpm', candidates.length - withRpm.length);
+		addSkipped(skipped, 'raised idle without a stated rpm', candidates.length - withRpm.length);
 		rpm = mostCommonRpm(withRpm.map((r) => r.rpm as number));
 		const tolerance = options.rpmTolerance ?? 0.1;
 		const group = withRpm.filter(
 			(r) => Math.abs((r.rpm as number) - (rpm as number)) <= tolerance * (rpm as number)
 		);
-		skip('raised idle at another rpm', withRpm.length - group.length);
+		addSkipped(skipped, 'raised idle at another rpm', withRpm.length - group.length);
 		points = group.map(rawPoint);
 	} else {
-		points = readings.filter((r) => r.condition === kind).map(rawPoint);
+		for (const r of readings) if (r.condition === kind) points.push(rawPoint(r));
 	}
-	points.sort((a, b) => a.at.getTime() - b.at.getTime());
-	return { kind, rpm, limit, points, skipped, rule: '' };
+	return { kind, rpm, limit, points: sortedByTime(points), skipped, rule: '' };
+}
+
+function addSkipped(skipped: { reason: string; count: number }[], reason: string, count: number) {
+	if (count > 0) skipped.push({ reason, count });
+}
+
+/**
+ * The list itself when already in time order (the usual case), else the list stably sorted
+ * in place — the same result as always sorting, without the comparisons.
+ */
+export function sortedByTime<T extends { at: Date }>(items: T[]): T[] {
+	for (let i = 1; i < items.length; i++) {
+		// Negated so an invalid date (NaN) also takes the sorting path.
+		if (!(items[i].at.getTime() >= items[i - 1].at.getTime())) {
+			return items.sort((a, b) => a.at.getTime() - b.at.getTime());
+		}
+	}
+	return items;
 }
 
 /**
@@ -241,10 +254,19 @@ export function chooseComparableSeries(
 	options: SeriesOptions = {}
 ): ComparableSeries {
 	const minPoints = options.minPoints ?? 8;
-	const all = SERIES_KINDS.map((kind) => buildSeries(readings, kind, options));
-	const enough = all.find((s) => s.points.length >= minPoints);
+	// Built in order of preference, stopping at the first with enough points.
+	const all: ComparableSeries[] = [];
+	let enough: ComparableSeries | undefined;
+	for (const kind of SERIES_KINDS) {
+		const series = buildSeries(readings, kind, options);
+		if (series.points.length >= minPoints) {
+			enough = series;
+			break;
+		}
+		all.push(series);
+	}
 	if (enough) {
-		const passed = all.slice(0, all.indexOf(enough)).filter((s) => s.points.length > 0);
+		const passed = all.filter((s) => s.points.length > 0);
 		const note = passed.length
 			? ` (${passed.map((s) => `${s.points.length} ${SERIES_LABELS[s.kind]}`).join(', ')} too few)`
 			: '';

@@ -9,7 +9,7 @@ import { lineForGroup, fitPooledOls, type GroupData, type PooledFit } from './st
 import { regularizedBeta } from './stats/student-t';
 import { fitOls, lineFromOls, type LineWithError } from './stats/ols';
 import { fitPooledTheilSen, fitTheilSen, medianInPlace } from './stats/theil-sen';
-import type { SeriesPoint } from './series';
+import { sortedByTime, type SeriesPoint } from './series';
 import type { EventKind } from './vocabulary';
 
 export const MS_PER_DAY = 86_400_000;
@@ -110,12 +110,17 @@ export function splitIntoCycles(
 	const points = epoch.points;
 	const fromMs = epoch.startAt?.getTime() ?? Number.NEGATIVE_INFINITY;
 	const nowMs = now.getTime();
-	const inEpoch = events
-		.filter((e) => e.at.getTime() > fromMs && e.at.getTime() <= nowMs)
-		.sort((a, b) => a.at.getTime() - b.at.getTime());
-	const regens = inEpoch.filter((e) => e.kind === 'regen_active' || e.kind === 'regen_service');
-	const interrupted = inEpoch.filter((e) => e.kind === 'regen_interrupted');
-	const usesReports = inEpoch.some((e) => e.kind === 'regen_active');
+	const inEpoch = sortedByTime(
+		events.filter((e) => e.at.getTime() > fromMs && e.at.getTime() <= nowMs)
+	);
+	const regens: FilterEvent[] = [];
+	const interrupted: FilterEvent[] = [];
+	let usesReports = false;
+	for (const e of inEpoch) {
+		if (e.kind === 'regen_active' || e.kind === 'regen_service') regens.push(e);
+		else if (e.kind === 'regen_interrupted') interrupted.push(e);
+		if (e.kind === 'regen_active') usesReports = true;
+	}
 	const threshold = usesReports
 		? Number.POSITIVE_INFINITY
 		: Math.max(
@@ -124,6 +129,8 @@ export function splitIntoCycles(
 			);
 
 	const cycles: Cycle[] = [];
+	// The current cycle's readings are points[first…i); copied out in one slice when it closes.
+	let first = 0;
 	let current: Cycle = {
 		points: [],
 		startedBy: 'epoch_start',
@@ -147,10 +154,12 @@ export function splitIntoCycles(
 		}
 		const previous = i > 0 ? points[i - 1] : null;
 		const dropped = previous !== null && previous.deltaPMbar - p.deltaPMbar > threshold;
-		if ((reportedAt !== null || dropped) && current.points.length > 0) {
+		if ((reportedAt !== null || dropped) && i > first) {
 			const startAt = reportedAt ?? new Date((pMs + (previous as SeriesPoint).at.getTime()) / 2);
+			current.points = points.slice(first, i);
 			current.endAt = startAt;
 			cycles.push(current);
+			first = i;
 			current = {
 				points: [],
 				startedBy: reportedAt !== null ? 'reported' : 'detected',
@@ -171,8 +180,8 @@ export function splitIntoCycles(
 			current.interruptedCount++;
 			interruptedIndex++;
 		}
-		current.points.push(p);
 	}
+	current.points = points.slice(first);
 	// Regenerations after the last reading end the current cycle with no reading yet in the new one.
 	if (regenIndex < regens.length && current.points.length > 0) {
 		const last = regens[regens.length - 1];
@@ -207,17 +216,21 @@ export function splitIntoCycles(
  * (÷ 0.6745 for a normal sd) shrugs off the rest of the saw-tooth.
  */
 function noiseFromSecondDifferences(points: readonly SeriesPoint[], dropMbar: number): number {
-	const d2: number[] = [];
+	if (secondDifferenceScratch.length < points.length) {
+		secondDifferenceScratch = new Float64Array(points.length * 2);
+	}
+	let count = 0;
 	for (let i = 1; i < points.length - 1; i++) {
 		const a = points[i - 1].deltaPMbar;
 		const b = points[i].deltaPMbar;
 		const c = points[i + 1].deltaPMbar;
 		if (a - b > dropMbar || b - c > dropMbar) continue;
-		d2.push(Math.abs(c - 2 * b + a));
+		secondDifferenceScratch[count++] = Math.abs(c - 2 * b + a);
 	}
-	if (d2.length < 3) return 0;
-	return medianInPlace(d2) / 0.6745 / Math.sqrt(6);
+	if (count < 3) return 0;
+	return medianInPlace(secondDifferenceScratch, count) / 0.6745 / Math.sqrt(6);
 }
+let secondDifferenceScratch = new Float64Array(256);
 
 export interface CyclePeak {
 	/** When the cycle ended (its regeneration). */
@@ -288,31 +301,15 @@ export function fitGrowth(
 			i === cycles.length - 1 ||
 			(c.points.length > 0 && c.points[c.points.length - 1].at.getTime() >= fromMs)
 	);
-	const days = (at: Date) => (at.getTime() - nowMs) / MS_PER_DAY;
-	const groups: { xs: Float64Array; ys: Float64Array }[] = used.map((c) => {
-		const xs = new Float64Array(c.points.length);
-		const ys = new Float64Array(c.points.length);
-		c.points.forEach((p, i) => {
-			xs[i] = days(p.at);
-			ys[i] = p.deltaPMbar;
-		});
-		return { xs, ys };
-	});
-	if (!groups.some((g) => g.xs.length >= 2 && g.xs[g.xs.length - 1] > g.xs[0])) return null;
+	const groups: CycleData[] = used.map((c) => cycleData(c.points, nowMs));
+	if (!groups.some(hasDistinctTimes)) return null;
 
 	const robust = fitPooledTheilSen(groups);
-	const keep = screen(groups, robust.slope, robust.intercepts, options.outlierCutoff);
+	const limit = screeningLimit(groups, robust.slope, robust.intercepts, options.outlierCutoff);
 	const screenedOut: SeriesPoint[] = [];
-	const kept: GroupData[] = groups.map((g, k) => {
-		const xs: number[] = [];
-		const ys: number[] = [];
-		for (let i = 0; i < g.xs.length; i++) {
-			if (keep[k][i]) {
-				xs.push(g.xs[i]);
-				ys.push(g.ys[i]);
-			} else screenedOut.push(used[k].points[i]);
-		}
-		return { xs, ys };
+	const kept: CycleData[] = groups.map((g, k) => {
+		const fit = { slope: robust.slope, intercept: robust.intercepts[k], limit };
+		return keepScreened(g, fit, used[k].points, screenedOut);
 	});
 	let parallel: PooledFit;
 	try {
@@ -322,54 +319,75 @@ export function fitGrowth(
 	}
 	const currentIndex = used.length - 1;
 	const startsX = used.map((c) =>
-		c.startedBy === 'reported' && c.startAt ? days(c.startAt) : null
+		c.startedBy === 'reported' && c.startAt ? daysFrom(c.startAt, nowMs) : null
 	);
-	const anchored = fitAnchored(kept, startsX, parallel);
-
-	let model: GrowthModel = 'parallel';
-	let slope = parallel.slope;
-	let slopeStdErr = parallel.slopeStdErr;
-	let residualStdDev = parallel.residualStdDev;
-	let df = parallel.df;
-	let currentLine = lineForGroup(parallel, currentIndex);
-	let levelAt = (k: number, x: number) => {
-		const g = parallel.groups[k];
-		return g.yMean + parallel.slope * (x - g.xMean);
-	};
-	if (anchored && anchored.pValue >= ANCHOR_REJECT_P && anchored.df >= 2) {
-		model = 'anchored';
-		slope = anchored.slope;
-		slopeStdErr = anchored.slopeStdErr;
-		residualStdDev = anchored.residualStdDev;
-		df = anchored.df;
-		currentLine = anchored.lineFor(currentIndex);
-		levelAt = anchored.levelAt;
-	}
+	const fitted = fitAnchored(kept, startsX, parallel);
+	const anchored = fitted && fitted.pValue >= ANCHOR_REJECT_P && fitted.df >= 2 ? fitted : null;
 
 	const peaks: CyclePeak[] = [];
 	for (let k = 0; k < currentIndex; k++) {
 		const c = used[k];
 		if (kept[k].xs.length === 0 || c.endAt === null) continue;
-		const startX = days(c.startAt ?? c.points[0].at);
-		peaks.push({ at: c.endAt, peakMbar: levelAt(k, days(c.endAt)), startMbar: levelAt(k, startX) });
+		const startX = daysFrom(c.startAt ?? c.points[0].at, nowMs);
+		const endX = daysFrom(c.endAt, nowMs);
+		peaks.push({
+			at: c.endAt,
+			peakMbar: anchored ? anchoredLevel(anchored, k, endX) : parallelLevel(parallel, k, endX),
+			startMbar: anchored ? anchoredLevel(anchored, k, startX) : parallelLevel(parallel, k, startX)
+		});
 	}
 	return {
-		model,
-		slopeMbarPerDay: slope,
-		slopeStdErrMbarPerDay: slopeStdErr,
+		model: anchored ? 'anchored' : 'parallel',
+		slopeMbarPerDay: anchored ? anchored.slope : parallel.slope,
+		slopeStdErrMbarPerDay: anchored ? anchored.slopeStdErr : parallel.slopeStdErr,
 		theilSenMbarPerDay: robust.slope,
-		residualStdDevMbar: residualStdDev,
-		df,
+		residualStdDevMbar: anchored ? anchored.residualStdDev : parallel.residualStdDev,
+		df: anchored ? anchored.df : parallel.df,
 		readingsUsed: parallel.n,
 		cyclesUsed: parallel.groups.filter((g) => g.n > 0).length,
 		screenedOut,
-		currentLine,
+		currentLine: anchored
+			? anchoredLine(anchored, currentIndex)
+			: lineForGroup(parallel, currentIndex),
 		// Theil–Sen intercepts are levels at x = 0, which is `now`.
 		currentTheilSenMbar: robust.intercepts[currentIndex],
-		baselineMbarPerDay: model === 'anchored' && anchored ? anchored.baselineSlope : null,
-		anchoredPValue: anchored?.pValue ?? null,
+		baselineMbarPerDay: anchored ? anchored.baselineSlope : null,
+		anchoredPValue: fitted?.pValue ?? null,
 		peaks
 	};
+}
+
+/** Days from `nowMs` to `at` (negative in the past). */
+function daysFrom(at: Date, nowMs: number): number {
+	return (at.getTime() - nowMs) / MS_PER_DAY;
+}
+
+/** One cycle's readings as x (days relative to now) and y (Δp, mbar). */
+interface CycleData {
+	xs: number[];
+	ys: number[];
+}
+
+function cycleData(points: readonly SeriesPoint[], nowMs: number): CycleData {
+	// Plain arrays filled by push (packed): small typed arrays cost more to allocate than they
+	// save, and this runs for every cycle of every van.
+	const xs: number[] = [];
+	const ys: number[] = [];
+	for (const p of points) {
+		xs.push(daysFrom(p.at, nowMs));
+		ys.push(p.deltaPMbar);
+	}
+	return { xs, ys };
+}
+
+function hasDistinctTimes(g: CycleData): boolean {
+	return g.xs.length >= 2 && g.xs[g.xs.length - 1] > g.xs[0];
+}
+
+/** Level of cycle k at x under the parallel lines. */
+function parallelLevel(parallel: PooledFit, k: number, x: number): number {
+	const g = parallel.groups[k];
+	return g.yMean + parallel.slope * (x - g.xMean);
 }
 
 interface AnchoredFit {
@@ -379,8 +397,11 @@ interface AnchoredFit {
 	residualStdDev: number;
 	df: number;
 	pValue: number;
-	lineFor: (k: number) => LineWithError;
-	levelAt: (k: number, x: number) => number;
+	model: LinearModelFit;
+	/** Per cycle: its regeneration time (anchored) or null (free level). */
+	startsX: readonly (number | null)[];
+	/** Per free cycle with readings: its level's column in the model. */
+	freeColumn: ReadonlyMap<number, number>;
 }
 
 /**
@@ -406,10 +427,12 @@ function fitAnchored(
 	});
 	const p = 3 + freeColumn.size;
 	const n = parallel.n;
-	const rows = new Float64Array(n * p);
-	const ys = new Float64Array(n);
+	// Plain arrays: small typed arrays cost more to allocate than they save here.
+	const rows = new Array<number>(n * p).fill(0);
+	const ys = new Array<number>(n);
 	let row = 0;
-	kept.forEach((g, k) => {
+	for (let k = 0; k < kept.length; k++) {
+		const g = kept[k];
 		const s = startsX[k];
 		for (let i = 0; i < g.xs.length; i++) {
 			const base = row * p;
@@ -423,7 +446,7 @@ function fitAnchored(
 			}
 			ys[row++] = g.ys[i];
 		}
-	});
+	}
 	let fit: LinearModelFit;
 	try {
 		fit = fitLinearModel(rows, ys, p);
@@ -435,70 +458,80 @@ function fitAnchored(
 	const f = (fit.sse - parallel.sse) / q / (parallel.sse / parallel.df);
 	const pValue =
 		f > 0 ? 1 - regularizedBeta((q * f) / (q * f + parallel.df), q / 2, parallel.df / 2) : 1;
-	const [b0, b1, b] = fit.coefficients;
-	const u = fit.unscaledCovariance;
 	const s2 = fit.residualStdDev * fit.residualStdDev;
 	return {
-		slope: b,
-		slopeStdErr: Math.sqrt(s2 * u[2 * p + 2]),
-		baselineSlope: b1,
+		slope: fit.coefficients[2],
+		slopeStdErr: Math.sqrt(s2 * fit.unscaledCovariance[2 * p + 2]),
+		baselineSlope: fit.coefficients[1],
 		residualStdDev: fit.residualStdDev,
 		df: fit.df,
 		pValue,
-		lineFor: (k) => {
-			const s = startsX[k] as number;
-			// anchorY = β0 + s·β1: var = U00 + 2s·U01 + s²·U11; cov with b = U02 + s·U12.
-			return {
-				slope: b,
-				anchorX: s,
-				anchorY: b0 + b1 * s,
-				anchorVariance: s2 * (u[0] + 2 * s * u[1] + s * s * u[p + 1]),
-				anchorSlopeCovariance: s2 * (u[2] + s * u[p + 2]),
-				slopeVariance: s2 * u[2 * p + 2],
-				residualStdDev: fit.residualStdDev,
-				df: fit.df
-			};
-		},
-		levelAt: (k, x) => {
-			const s = startsX[k];
-			if (s !== null) return b0 + b1 * s + b * (x - s);
-			const column = freeColumn.get(k);
-			return column === undefined ? Number.NaN : fit.coefficients[column] + b * x;
-		}
+		model: fit,
+		startsX,
+		freeColumn
 	};
+}
+
+/** The line of anchored cycle k, with its covariance. */
+function anchoredLine(anchored: AnchoredFit, k: number): LineWithError {
+	const { coefficients, unscaledCovariance: u, p, residualStdDev, df } = anchored.model;
+	const [b0, b1, b] = coefficients;
+	const s2 = residualStdDev * residualStdDev;
+	const s = anchored.startsX[k] as number;
+	// anchorY = β0 + s·β1: var = U00 + 2s·U01 + s²·U11; cov with b = U02 + s·U12.
+	return {
+		slope: b,
+		anchorX: s,
+		anchorY: b0 + b1 * s,
+		anchorVariance: s2 * (u[0] + 2 * s * u[1] + s * s * u[p + 1]),
+		anchorSlopeCovariance: s2 * (u[2] + s * u[p + 2]),
+		slopeVariance: s2 * u[2 * p + 2],
+		residualStdDev,
+		df
+	};
+}
+
+/** Level of cycle k at x under the anchored model (NaN for a free cycle without readings). */
+function anchoredLevel(anchored: AnchoredFit, k: number, x: number): number {
+	const [b0, b1, b] = anchored.model.coefficients;
+	const s = anchored.startsX[k];
+	if (s !== null) return b0 + b1 * s + b * (x - s);
+	const column = anchored.freeColumn.get(k);
+	return column === undefined ? Number.NaN : anchored.model.coefficients[column] + b * x;
 }
 
 const MIN_SCREEN_SCALE_MBAR = 1;
 let differenceScratch = new Float64Array(1024);
 
 /**
- * Marks which readings to keep: those within `cutoff` robust sds of their cycle's Theil–Sen
- * line. The scale comes from differences of consecutive residuals within a cycle, which do
+ * How far from its cycle's Theil–Sen line a reading may lie and still be kept: `cutoff` robust
+ * sds. The scale comes from differences of consecutive residuals within a cycle, which do
  * not depend on the cycle's level: r_i − r_(i−1) ≈ ε_i − ε_(i−1) has sd σ·√2, so
  * σ ≈ median|r_i − r_(i−1)| / (0.6745·√2) (a normal-consistent, MAD-like estimate; the MAD of
  * residuals around each cycle's own median runs low on cycles of three or four readings),
- * floored at 1 mbar. With fewer than 6 such differences nothing is screened. A cycle's only reading is always kept.
+ * floored at 1 mbar. Null (nothing is screened) with fewer than 6 such differences.
  */
-function screen(
-	groups: readonly { xs: Float64Array; ys: Float64Array }[],
+function screeningLimit(
+	groups: readonly CycleData[],
 	slope: number,
-	intercepts: number[],
+	intercepts: readonly number[],
 	cutoff: number
-): boolean[][] {
-	const residuals = groups.map((g, k) => {
-		const r = new Float64Array(g.xs.length);
-		for (let i = 0; i < g.xs.length; i++) r[i] = g.ys[i] - intercepts[k] - slope * g.xs[i];
-		return r;
-	});
+): number | null {
 	let pairs = 0;
-	for (const r of residuals) pairs += Math.max(0, r.length - 1);
-	const keepAll = groups.map((g) => new Array<boolean>(g.xs.length).fill(true));
-	if (pairs < 6) return keepAll;
+	for (const g of groups) pairs += Math.max(0, g.xs.length - 1);
+	if (pairs < 6) return null;
 	// One reused buffer: the engine runs this for every van.
 	if (differenceScratch.length < pairs) differenceScratch = new Float64Array(pairs * 2);
 	let count = 0;
-	for (const r of residuals) {
-		for (let i = 1; i < r.length; i++) differenceScratch[count++] = Math.abs(r[i] - r[i - 1]);
+	for (let k = 0; k < groups.length; k++) {
+		const { xs, ys } = groups[k];
+		const intercept = intercepts[k];
+		let previous = ys[0] - intercept - slope * xs[0];
+		for (let i = 1; i < xs.length; i++) {
+			const r = ys[i] - intercept - slope * xs[i];
+			differenceScratch[count++] = Math.abs(r - previous);
+			previous = r;
+		}
 	}
 	// Floor at 1 mbar, about a Δp reading's resolution: exact or rounded data must not turn
 	// rounding residue into "outliers".
@@ -506,11 +539,40 @@ function screen(
 		MIN_SCREEN_SCALE_MBAR,
 		medianInPlace(differenceScratch, count) / (0.6745 * Math.SQRT2)
 	);
-	return residuals.map((r) => {
-		const keep = Array.from(r, (v) => Math.abs(v) <= cutoff * scale);
-		if (!keep.some(Boolean) && keep.length > 0) keep[0] = true;
-		return keep;
-	});
+	return cutoff * scale;
+}
+
+/**
+ * The cycle's readings within `limit` of its robust line (all of them when `limit` is null);
+ * the rest are appended to `screenedOut`. A cycle's only kept reading is never screened out:
+ * when none is within the limit, its first reading stays.
+ */
+function keepScreened(
+	g: CycleData,
+	line: { slope: number; intercept: number; limit: number | null },
+	points: readonly SeriesPoint[],
+	screenedOut: SeriesPoint[]
+): CycleData {
+	const { slope, intercept, limit } = line;
+	const m = g.xs.length;
+	if (limit === null) return g;
+	let count = 0;
+	for (let i = 0; i < m; i++) if (isWithin(g, i, intercept, slope, limit)) count++;
+	if (count === m) return g;
+	const keepFirst = count === 0;
+	const xs: number[] = [];
+	const ys: number[] = [];
+	for (let i = 0; i < m; i++) {
+		if (isWithin(g, i, intercept, slope, limit) || (keepFirst && i === 0)) {
+			xs.push(g.xs[i]);
+			ys.push(g.ys[i]);
+		} else screenedOut.push(points[i]);
+	}
+	return { xs, ys };
+}
+
+function isWithin(g: CycleData, i: number, intercept: number, slope: number, limit: number) {
+	return Math.abs(g.ys[i] - intercept - slope * g.xs[i]) <= limit;
 }
 
 /**
@@ -525,15 +587,15 @@ export function estimateKmPerDay(
 ): number | null {
 	const nowMs = now.getTime();
 	const fromMs = nowMs - lookbackDays * MS_PER_DAY;
-	const inWindow = readings
-		.filter((r) => r.at.getTime() >= fromMs && r.at.getTime() <= nowMs)
-		.sort((a, b) => a.at.getTime() - b.at.getTime());
+	const inWindow = sortedByTime(
+		readings.filter((r) => r.at.getTime() >= fromMs && r.at.getTime() <= nowMs)
+	);
 	if (inWindow.length < 2) return null;
 	const step = Math.max(1, Math.ceil(inWindow.length / 60));
 	const xs: number[] = [];
 	const ys: number[] = [];
 	for (let i = 0; i < inWindow.length; i += step) {
-		xs.push((inWindow[i].at.getTime() - nowMs) / MS_PER_DAY);
+		xs.push(daysFrom(inWindow[i].at, nowMs));
 		ys.push(inWindow[i].odometerKm);
 	}
 	try {

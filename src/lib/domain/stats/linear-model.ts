@@ -32,8 +32,8 @@ export function fitLinearModel(
 	const n = ys.length;
 	if (rows.length !== n * p) throw new RangeError('design matrix does not match n × p');
 	if (n < p) throw new RangeError('fewer observations than columns');
-	// Column-major working copy.
-	const a = new Float64Array(n * p);
+	// Column-major working copy (a plain array: cheaper to allocate than a small typed array).
+	const a = new Array<number>(n * p);
 	let scale = 0;
 	for (let i = 0; i < n; i++) {
 		for (let j = 0; j < p; j++) {
@@ -41,8 +41,8 @@ export function fitLinearModel(
 			scale = Math.max(scale, Math.abs(rows[i * p + j]));
 		}
 	}
-	const y = Float64Array.from(ys);
-	const diag = new Float64Array(p);
+	const y = Array.from(ys);
+	const diag = new Array<number>(p);
 	for (let j = 0; j < p; j++) {
 		const col = j * n;
 		let norm = 0;
@@ -67,24 +67,22 @@ export function fitLinearModel(
 		for (let i = j; i < n; i++) y[i] -= fy * a[col + i];
 		diag[j] = alpha;
 	}
-	// R: diagonal in `diag`, above it in a[k*n + j] for k > j.
-	const r = (row: number, column: number) => (row === column ? diag[row] : a[column * n + row]);
 	const coefficients = new Float64Array(p);
 	for (let j = p - 1; j >= 0; j--) {
 		let sum = y[j];
-		for (let k = j + 1; k < p; k++) sum -= r(j, k) * coefficients[k];
-		coefficients[j] = sum / r(j, j);
+		for (let k = j + 1; k < p; k++) sum -= upper(a, diag, n, j, k) * coefficients[k];
+		coefficients[j] = sum / diag[j];
 	}
 	let sse = 0;
 	for (let i = p; i < n; i++) sse += y[i] * y[i];
 	// R⁻¹ (upper triangular), then (XᵀX)⁻¹ = R⁻¹R⁻ᵀ.
-	const rInv = new Float64Array(p * p);
+	const rInv = new Array<number>(p * p).fill(0);
 	for (let j = 0; j < p; j++) {
-		rInv[j * p + j] = 1 / r(j, j);
+		rInv[j * p + j] = 1 / diag[j];
 		for (let i = j - 1; i >= 0; i--) {
 			let sum = 0;
-			for (let k = i + 1; k <= j; k++) sum += r(i, k) * rInv[k * p + j];
-			rInv[i * p + j] = -sum / r(i, i);
+			for (let k = i + 1; k <= j; k++) sum += upper(a, diag, n, i, k) * rInv[k * p + j];
+			rInv[i * p + j] = -sum / diag[i];
 		}
 	}
 	const unscaledCovariance = new Float64Array(p * p);
@@ -105,4 +103,9 @@ export function fitLinearModel(
 		df,
 		residualStdDev: df > 0 ? Math.sqrt(sse / df) : Number.NaN
 	};
+}
+
+/** R[row][column] of the QR factor: the diagonal in `diag`, above it in a[column·n + row]. */
+function upper(a: number[], diag: number[], n: number, row: number, column: number): number {
+	return row === column ? diag[row] : a[column * n + row];
 }

@@ -1,3 +1,4 @@
+import fc from 'fast-check';
 import jStat from 'jstat';
 import { describe, expect, it } from 'vitest';
 import { normalQuantile, studentTCdf, studentTQuantile } from './student-t';
@@ -104,5 +105,30 @@ describe('normalQuantile', () => {
 		expect(Math.abs(normalQuantile(0.975) / 1.95996398454005 - 1)).toBeLessThan(1e-13);
 		expect(normalQuantile(0.5)).toBe(0);
 		expect(normalQuantile(0.025)).toBeCloseTo(-normalQuantile(0.975), 14);
+	});
+});
+
+describe('studentTQuantile memo', () => {
+	it('gives the same value however often and in whatever order it is asked', () => {
+		fc.assert(
+			fc.property(
+				fc.array(
+					fc.record({
+						p: fc.double({ min: 0.001, max: 0.999, noNaN: true }),
+						df: fc.integer({ min: 1, max: 5000 })
+					}),
+					{ minLength: 1, maxLength: 30 }
+				),
+				(queries) => {
+					const first = queries.map((q) => studentTQuantile(q.p, q.df));
+					const again = [...queries].reverse().map((q) => studentTQuantile(q.p, q.df));
+					expect(again.reverse()).toEqual(first);
+					for (let i = 0; i < queries.length; i++) {
+						// Still the quantile: the CDF at it gives back p.
+						expect(studentTCdf(first[i], queries[i].df)).toBeCloseTo(queries[i].p, 9);
+					}
+				}
+			)
+		);
 	});
 });

@@ -226,6 +226,28 @@ function cornishFisher(z: number, df: number): number {
  */
 export function studentTQuantile(p: number, df: number): number {
 	if (!(df > 0)) throw new RangeError(`degrees of freedom must be positive, got ${df}`);
+	// The engine asks for the same few (p, df) for every van; the Newton solve costs microseconds.
+	let byDf = quantileCache.get(p);
+	if (byDf === undefined) {
+		if (quantileCache.size >= QUANTILE_CACHE_LEVELS) quantileCache.clear();
+		byDf = new Map();
+		quantileCache.set(p, byDf);
+	}
+	let t = byDf.get(df);
+	if (t === undefined) {
+		if (byDf.size >= QUANTILE_CACHE_DFS) byDf.clear();
+		t = solveStudentTQuantile(p, df);
+		byDf.set(df, t);
+	}
+	return t;
+}
+
+/** Memo of {@link studentTQuantile}: p → df → t, each level bounded (cleared when full). */
+const quantileCache = new Map<number, Map<number, number>>();
+const QUANTILE_CACHE_LEVELS = 16;
+const QUANTILE_CACHE_DFS = 4096;
+
+function solveStudentTQuantile(p: number, df: number): number {
 	if (!(p > 0 && p < 1)) {
 		if (p === 0) return Number.NEGATIVE_INFINITY;
 		if (p === 1) return Number.POSITIVE_INFINITY;

@@ -74,7 +74,14 @@ export interface PooledTheilSenFit {
 	pairs: number;
 }
 
-let scratch = new Float64Array(1024);
+// Scratch buffers reused across calls keep the engine free of per-van garbage.
+let slopeScratch: Float64Array = new Float64Array(1024);
+let residualScratch: Float64Array = new Float64Array(256);
+
+/** `buffer` if it holds `size` values, else a new one at least twice as large. */
+function withCapacity(buffer: Float64Array, size: number): Float64Array {
+	return buffer.length >= size ? buffer : new Float64Array(Math.max(size, buffer.length * 2));
+}
 
 /**
  * Common Theil–Sen slope for groups that share a slope but not a level: the median of the
@@ -84,24 +91,39 @@ let scratch = new Float64Array(1024);
 export function fitPooledTheilSen(groups: readonly GroupData[]): PooledTheilSenFit {
 	let total = 0;
 	for (const g of groups) total += (g.xs.length * (g.xs.length - 1)) / 2;
-	// One scratch buffer reused across calls keeps the engine free of per-van garbage.
-	if (scratch.length < total) scratch = new Float64Array(Math.max(total, scratch.length * 2));
+	slopeScratch = withCapacity(slopeScratch, total);
 	let pairs = 0;
-	for (const g of groups) {
-		const m = g.xs.length;
-		for (let i = 0; i < m; i++) {
-			for (let j = i + 1; j < m; j++) {
-				const dx = g.xs[j] - g.xs[i];
-				if (dx !== 0) scratch[pairs++] = (g.ys[j] - g.ys[i]) / dx;
-			}
+	for (const g of groups) pairs = collectSlopes(g.xs, g.ys, slopeScratch, pairs);
+	if (pairs === 0) throw new RangeError('no two points with distinct x');
+	const slope = medianInPlace(slopeScratch, pairs);
+	const intercepts = new Array<number>(groups.length);
+	for (let k = 0; k < groups.length; k++) intercepts[k] = medianIntercept(groups[k], slope);
+	return { slope, intercepts, pairs };
+}
+
+/** Writes the slopes of all pairs with distinct x into `out` from `count`; returns the new count. */
+function collectSlopes(
+	xs: ArrayLike<number>,
+	ys: ArrayLike<number>,
+	out: Float64Array,
+	count: number
+): number {
+	const m = xs.length;
+	for (let i = 0; i < m; i++) {
+		const xi = xs[i];
+		const yi = ys[i];
+		for (let j = i + 1; j < m; j++) {
+			const dx = xs[j] - xi;
+			if (dx !== 0) out[count++] = (ys[j] - yi) / dx;
 		}
 	}
-	if (pairs === 0) throw new RangeError('no two points with distinct x');
-	const slope = medianInPlace(scratch, pairs);
-	const intercepts = groups.map((g) => {
-		const residuals = new Float64Array(g.xs.length);
-		for (let i = 0; i < g.xs.length; i++) residuals[i] = g.ys[i] - slope * g.xs[i];
-		return medianInPlace(residuals);
-	});
-	return { slope, intercepts, pairs };
+	return count;
+}
+
+/** Median of y − b·x over one group (NaN when it is empty). */
+function medianIntercept(g: GroupData, slope: number): number {
+	const m = g.xs.length;
+	residualScratch = withCapacity(residualScratch, m);
+	for (let i = 0; i < m; i++) residualScratch[i] = g.ys[i] - slope * g.xs[i];
+	return medianInPlace(residualScratch, m);
 }
