@@ -634,6 +634,8 @@ function gradeCrossing(a: GradingFacts): { grade: ConfidenceGrade; reason: strin
 
 /** ISO calendar date (UTC), e.g. 2025-06-06: stable across locales. */
 function day(at: Date): string {
+	// A trend that barely rises reaches the line beyond the dates JavaScript can hold.
+	if (Number.isNaN(at.getTime())) return 'a date too far ahead to name';
 	return at.toISOString().slice(0, 10);
 }
 
