@@ -2,7 +2,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { expect, test, type Page } from '@playwright/test';
 import { simpleParser } from 'mailparser';
-import { ACCOUNTS, signIn } from './helpers';
+import { ACCOUNTS, open, signIn } from './helpers';
 
 // The launcher's local sink keeps messages here (see playwright.config.ts).
 const mailDir = path.join(process.env.SOOTCAST_E2E_DIR ?? '', 'mailbox');
@@ -47,7 +47,7 @@ test('an admin invites a workshop user, who sets a password from the e-mail and 
 	await expect(page.getByText('Rowan Achterberg invited you to Sootcast').first()).toBeVisible();
 	await page.getByRole('button', { name: 'Sign out' }).click();
 
-	await page.goto(await linkFromMail(email, /invited you to Sootcast/, '/welcome/'));
+	await open(page, await linkFromMail(email, /invited you to Sootcast/, '/welcome/'));
 	await expect(page.getByRole('heading', { name: 'Welcome to Sootcast' })).toBeVisible();
 	await choosePassword(page, 'kit-chooses-a-password', 'Set my password');
 	await signIn(page, email, 'kit-chooses-a-password');
@@ -56,13 +56,13 @@ test('an admin invites a workshop user, who sets a password from the e-mail and 
 
 test('a driver resets a forgotten password from the e-mailed link', async ({ page }) => {
 	const email = 'wren.halloway@larkspur.test';
-	await page.goto('/login');
+	await open(page, '/login');
 	await page.getByRole('link', { name: 'Forgotten your password?' }).click();
 	await page.getByLabel('E-mail').fill(email);
 	await page.getByRole('button', { name: 'Send the link' }).click();
 	await expect(page.getByRole('status')).toContainText('a link to choose a new password is on its way');
 
-	await page.goto(await linkFromMail(email, /Reset your Sootcast password/, '/reset/'));
+	await open(page, await linkFromMail(email, /Reset your Sootcast password/, '/reset/'));
 	await choosePassword(page, 'wren-new-password-2026', 'Save the new password');
 	await signIn(page, email, 'wren-new-password-2026');
 	await expect(page).toHaveURL(/\/driver$/);

@@ -3,9 +3,15 @@ import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../src/lib/server/demo/scenario
 
 export const ACCOUNTS = DEMO_ACCOUNTS;
 
+/** Opens a page and waits until it is interactive (hydrated), so typing is not lost. */
+export async function open(page: Page, path: string) {
+	await page.goto(path);
+	await page.locator('html[data-ready="true"]').waitFor();
+}
+
 /** Signs in through the real form, by label, as a person would. */
 export async function signIn(page: Page, email: string, password = DEMO_PASSWORD) {
-	await page.goto('/login');
+	await open(page, '/login');
 	await page.getByLabel('E-mail').fill(email);
 	await page.getByLabel('Password').fill(password);
 	await page.getByRole('button', { name: 'Sign in' }).click();

@@ -1,6 +1,6 @@
 import { expect, test, type Page } from '@playwright/test';
 import AxeBuilder from '@axe-core/playwright';
-import { ACCOUNTS, signIn } from './helpers';
+import { ACCOUNTS, open, signIn } from './helpers';
 
 // `npm run screenshots` sets SCREENSHOTS=1 to refresh docs/screenshots; a normal test run
 // checks the same pages without touching the repository.
@@ -81,7 +81,7 @@ test.describe('each role does its main job', () => {
 	});
 
 	test('the sign-in and settings pages are accessible', async ({ page }) => {
-		await page.goto('/login');
+		await open(page, '/login');
 		await expectAccessible(page);
 		await shoot(page, 'sign-in');
 		await signIn(page, ACCOUNTS.fleetManager.email);

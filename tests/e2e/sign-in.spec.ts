@@ -1,5 +1,5 @@
 import { expect, test } from '@playwright/test';
-import { ACCOUNTS, signIn } from './helpers';
+import { ACCOUNTS, open, signIn } from './helpers';
 
 test.describe('each role signs in and lands in its own area', () => {
 	const cases = [
@@ -18,7 +18,7 @@ test.describe('each role signs in and lands in its own area', () => {
 });
 
 test('a wrong password shows one neutral message and focuses it', async ({ page }) => {
-	await page.goto('/login');
+	await open(page, '/login');
 	await page.getByLabel('E-mail').fill(ACCOUNTS.workshop.email);
 	await page.getByLabel('Password').fill('not-the-password');
 	await page.getByRole('button', { name: 'Sign in' }).click();
@@ -35,7 +35,7 @@ test('a driver opening the fleet area gets a clear 403 page', async ({ page }) =
 });
 
 test('a signed-out visitor is sent to sign in and comes back to the page asked for', async ({ page }) => {
-	await page.goto('/settings');
+	await open(page, '/settings');
 	await expect(page).toHaveURL(/\/login\?redirectTo=%2Fsettings/);
 	await page.getByLabel('E-mail').fill(ACCOUNTS.fleetManager.email);
 	await page.getByLabel('Password').fill('sootcast-demo');
