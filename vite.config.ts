@@ -13,7 +13,8 @@ export default defineConfig({
 					name: 'unit',
 					environment: 'node',
 					include: ['src/**/*.test.ts', 'jobs/**/*.test.ts', 'tests/unit/**/*.test.ts'],
-					exclude: ['src/**/*.integration.test.ts']
+					exclude: ['src/**/*.integration.test.ts'],
+					setupFiles: ['tests/unit/fast-check-setup.ts']
 				}
 			},
 			{
