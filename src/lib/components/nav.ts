@@ -8,12 +8,14 @@ export interface NavItem {
 export const NAV_BY_ROLE: Record<Role, NavItem[]> = {
 	fleet_manager: [
 		{ href: '/fleet', label: 'Vans' },
+		{ href: '/fleet/visits', label: 'Visits' },
 		{ href: '/fleet/people', label: 'Invite' },
 		{ href: '/fleet/imports', label: 'Imports' },
 		{ href: '/fleet/settings', label: 'Fleet settings' }
 	],
 	workshop: [
 		{ href: '/workshop', label: 'Queue' },
+		{ href: '/workshop/visits', label: 'Visits' },
 		{ href: '/workshop/imports', label: 'Imports' }
 	],
 	driver: [{ href: '/driver', label: 'My van' }],

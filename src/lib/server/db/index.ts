@@ -32,6 +32,8 @@ function associate(): void {
 	Forecast.belongsTo(Vehicle, { foreignKey: 'vehicleId', as: 'vehicle' });
 	Booking.belongsTo(Vehicle, { foreignKey: 'vehicleId', as: 'vehicle' });
 	Booking.belongsTo(Organisation, { foreignKey: 'workshopId', as: 'workshop' });
+	Booking.hasOne(models.BookingSlot, { foreignKey: 'bookingId', as: 'slot' });
+	Booking.hasMany(models.BookingChange, { foreignKey: 'bookingId', as: 'changes' });
 	VisitReport.belongsTo(Vehicle, { foreignKey: 'vehicleId', as: 'vehicle' });
 	SensorTest.belongsTo(Vehicle, { foreignKey: 'vehicleId', as: 'vehicle' });
 	Upload.belongsTo(Organisation, { foreignKey: 'organisationId' });

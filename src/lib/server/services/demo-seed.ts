@@ -1,10 +1,11 @@
 import { simulateVanHistory } from '../../domain/simulate';
 import {
-	Contract, Depot, Organisation, Reading, SensorType, Trip, User, Vehicle, VehicleEvent, getDb
+	Contract, Depot, Organisation, Reading, SensorType, Trip, User, Vehicle, VehicleEvent, WorkshopCapacity, WorkshopVisitKind, getDb
 } from '../db';
 import { hashPassword } from '../auth/password';
 import { DEMO_ACCOUNTS, DEMO_DAYS, DEMO_PASSWORD, DEPOTS, DRIVER_NAMES, demoVans } from '../demo/scenario';
 import { isoDay } from './scope';
+import { DEFAULT_VISIT_MINUTES } from '../../domain/visits';
 
 const CHUNK = 2_000;
 const DAY_MS = 86_400_000;
@@ -59,6 +60,14 @@ export async function seedDemo(now = new Date(), days = DEMO_DAYS): Promise<Demo
 		await Contract.create({ fleetId: larkspur.id, workshopId: fenwright.id, startsOn });
 		await Contract.create({ fleetId: thistledown.id, workshopId: copperbeech.id, startsOn });
 		await Contract.create({ fleetId: larkspur.id, workshopId: copperbeech.id, startsOn, endsOn: isoDay(new Date(today - 300 * DAY_MS)) });
+
+		// Capacity: Fenwright has three bays and opens early; Copperbeech two bays and also Saturdays.
+		await WorkshopCapacity.create({ workshopId: fenwright.id, baysPerDay: 3, opensAt: '07:30', closesAt: '17:30', closedWeekdays: [6, 7], timeZone: 'Europe/London' });
+		await WorkshopCapacity.create({ workshopId: copperbeech.id, baysPerDay: 2, opensAt: '08:00', closesAt: '16:00', closedWeekdays: [7], timeZone: 'Europe/London' });
+		for (const [kind, durationMinutes] of Object.entries(DEFAULT_VISIT_MINUTES)) {
+			await WorkshopVisitKind.create({ workshopId: fenwright.id, kind, durationMinutes });
+			await WorkshopVisitKind.create({ workshopId: copperbeech.id, kind, durationMinutes: kind === 'off_vehicle_cleaning' ? 300 : durationMinutes });
+		}
 
 		const depots = await Promise.all(DEPOTS.map((d) => Depot.create({ organisationId: larkspur.id, name: d.name, town: d.town })));
 		const thistledownYard = await Depot.create({ organisationId: thistledown.id, name: 'Thistledown yard', town: 'Mereholt' });

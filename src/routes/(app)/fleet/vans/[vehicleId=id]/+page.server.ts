@@ -5,6 +5,7 @@ import { parseForm } from '$lib/server/http/forms';
 import { updateVehicleDetails } from '$lib/server/services/vehicles';
 import { getVanStory } from '$lib/server/services/van-story';
 import { listSensorTests } from '$lib/server/services/sensor-tests';
+import { listVanVisits } from '$lib/server/services/visit-reports';
 import { SERIES_KINDS, type SeriesKind } from '$lib/domain/series';
 import { vehicleDetailsSchema } from '$lib/validation/vehicle';
 import type { Actions, PageServerLoad } from './$types';
@@ -17,10 +18,10 @@ const seriesParam = (url: URL) => {
 export const load: PageServerLoad = async ({ params, url }) => {
 	const user = requireRole('fleet_manager');
 	const vehicleId = Number(params.vehicleId);
-	const [story, sensorTests] = await orHttpError(() =>
-		Promise.all([getVanStory(user, vehicleId, { series: seriesParam(url) }), listSensorTests(user, vehicleId)])
+	const [story, sensorTests, visits] = await orHttpError(() =>
+		Promise.all([getVanStory(user, vehicleId, { series: seriesParam(url) }), listSensorTests(user, vehicleId), listVanVisits(user, vehicleId)])
 	);
-	return { story, sensorTests, saved: url.searchParams.has('saved') };
+	return { story, sensorTests, visits, saved: url.searchParams.has('saved') };
 };
 
 export const actions: Actions = {
