@@ -58,6 +58,8 @@ test('a driver resets a forgotten password from the e-mailed link', async ({ pag
 	const email = 'wren.halloway@larkspur.test';
 	await open(page, '/login');
 	await page.getByRole('link', { name: 'Forgotten your password?' }).click();
+	// Wait for the new page: the sign-in page also has an "E-mail" field.
+	await expect(page.getByRole('heading', { name: 'Forgotten password' })).toBeVisible();
 	await page.getByLabel('E-mail').fill(email);
 	await page.getByRole('button', { name: 'Send the link' }).click();
 	await expect(page.getByRole('status')).toContainText('a link to choose a new password is on its way');
