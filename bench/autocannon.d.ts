@@ -7,7 +7,15 @@ declare module 'autocannon' {
 		headers?: Record<string, string>;
 	}
 	interface Instance extends PromiseLike<unknown> {
-		on(event: 'response', listener: (client: unknown, statusCode: number, resBytes: number, responseTime: number) => void): void;
+		on(
+			event: 'response',
+			listener: (
+				client: unknown,
+				statusCode: number,
+				resBytes: number,
+				responseTime: number
+			) => void
+		): void;
 	}
 	export default function autocannon(options: Options): Instance;
 }

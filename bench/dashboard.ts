@@ -30,7 +30,9 @@ await db.migrate();
 await db.closeDb();
 
 const run = (d: sqlite3.Database, sql: string, params: unknown[] = []) =>
-	new Promise<void>((resolve, reject) => d.run(sql, params, (err) => (err ? reject(err) : resolve())));
+	new Promise<void>((resolve, reject) =>
+		d.run(sql, params, (err) => (err ? reject(err) : resolve()))
+	);
 console.log(`Seeding ${VANS} vans…`);
 {
 	const d = new sqlite3.Database(file);
@@ -39,19 +41,46 @@ console.log(`Seeding ${VANS} vans…`);
 	const sqlDate = (d: Date) => d.toISOString().replace('T', ' ').replace('Z', ' +00:00');
 	const stamp = sqlDate(now);
 	await run(d, 'BEGIN');
-	await run(d, `INSERT INTO organisations (id, name, kind, time_zone, created_at, updated_at) VALUES (1, 'Bench fleet', 'fleet', 'Europe/London', ?, ?)`, [stamp, stamp]);
-	await run(d, `INSERT INTO users (organisation_id, email, name, role, notify_statuses, password_hash, created_at, updated_at) VALUES (1, 'bench@fleet.test', 'Bench', 'fleet_manager', '[]', ?, ?, ?)`, [await hashPassword('bench-password'), stamp, stamp]);
-	for (let i = 1; i <= 3; i++) await run(d, `INSERT INTO depots (id, organisation_id, name, created_at, updated_at) VALUES (?, 1, ?, ?, ?)`, [i, `Depot ${i}`, stamp, stamp]);
+	await run(
+		d,
+		`INSERT INTO organisations (id, name, kind, time_zone, created_at, updated_at) VALUES (1, 'Bench fleet', 'fleet', 'Europe/London', ?, ?)`,
+		[stamp, stamp]
+	);
+	await run(
+		d,
+		`INSERT INTO users (organisation_id, email, name, role, notify_statuses, password_hash, created_at, updated_at) VALUES (1, 'bench@fleet.test', 'Bench', 'fleet_manager', '[]', ?, ?, ?)`,
+		[await hashPassword('bench-password'), stamp, stamp]
+	);
+	for (let i = 1; i <= 3; i++)
+		await run(
+			d,
+			`INSERT INTO depots (id, organisation_id, name, created_at, updated_at) VALUES (?, 1, ?, ?, ?)`,
+			[i, `Depot ${i}`, stamp, stamp]
+		);
 	const random = createRandom(11);
-	const van = d.prepare(`INSERT INTO vehicles (id, organisation_id, depot_id, registration, fuel, created_at, updated_at) VALUES (?, 1, ?, ?, 'en590_diesel', ?, ?)`);
+	const van = d.prepare(
+		`INSERT INTO vehicles (id, organisation_id, depot_id, registration, fuel, created_at, updated_at) VALUES (?, 1, ?, ?, 'en590_diesel', ?, ?)`
+	);
 	const status = d.prepare(
 		`INSERT INTO vehicle_statuses (vehicle_id, status, urgency, no_crossing, confidence, latest_mbar, concern_line_mbar, growth_mbar_per_week, crossing_expected, computed_at) VALUES (?, ?, ?, ?, 'fair', ?, 300, ?, ?, ?)`
 	);
 	for (let v = 1; v <= VANS; v++) {
 		van.run(v, 1 + (v % 3), `BEN ${String(v).padStart(5, '0')}`, stamp, stamp);
 		const s = VAN_STATUSES[Math.floor(random.uniform() * VAN_STATUSES.length)];
-		const expected = s === 'healthy' || s === 'insufficient_data' ? null : new Date(now.getTime() + random.uniform() * 120 * 86_400_000);
-		status.run(v, s, urgencyKey(s, expected, now), expected ? 0 : 1, 100 + random.uniform() * 250, random.uniform() * 20, expected ? sqlDate(expected) : null, stamp);
+		const expected =
+			s === 'healthy' || s === 'insufficient_data'
+				? null
+				: new Date(now.getTime() + random.uniform() * 120 * 86_400_000);
+		status.run(
+			v,
+			s,
+			urgencyKey(s, expected, now),
+			expected ? 0 : 1,
+			100 + random.uniform() * 250,
+			random.uniform() * 20,
+			expected ? sqlDate(expected) : null,
+			stamp
+		);
 	}
 	await new Promise<void>((r) => van.finalize(() => r()));
 	await new Promise<void>((r) => status.finalize(() => r()));
@@ -67,7 +96,14 @@ const port = await new Promise<number>((resolve) => {
 });
 const base = `http://127.0.0.1:${port}`;
 const server = spawn(process.execPath, ['build/index.js'], {
-	env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', ORIGIN: base, DATABASE_URL: `sqlite:${file}`, NODE_ENV: 'production' },
+	env: {
+		...process.env,
+		PORT: String(port),
+		HOST: '127.0.0.1',
+		ORIGIN: base,
+		DATABASE_URL: `sqlite:${file}`,
+		NODE_ENV: 'production'
+	},
 	stdio: ['ignore', 'ignore', 'inherit']
 });
 try {
@@ -82,7 +118,11 @@ try {
 	const login = await fetch(`${base}/login`, {
 		method: 'POST',
 		redirect: 'manual',
-		headers: { origin: base, 'content-type': 'application/x-www-form-urlencoded', accept: 'text/html' },
+		headers: {
+			origin: base,
+			'content-type': 'application/x-www-form-urlencoded',
+			accept: 'text/html'
+		},
 		body: new URLSearchParams({ email: 'bench@fleet.test', password: 'bench-password' })
 	});
 	const cookie = (login.headers.get('set-cookie') ?? '').split(';')[0];
@@ -96,7 +136,12 @@ try {
 	async function measure(label: string, url: string) {
 		const times: number[] = [];
 		let errors = 0;
-		const instance = autocannon({ url, connections: CONNECTIONS, duration: SECONDS, headers: { cookie } });
+		const instance = autocannon({
+			url,
+			connections: CONNECTIONS,
+			duration: SECONDS,
+			headers: { cookie }
+		});
 		instance.on('response', (_client: unknown, status: number, _bytes: number, ms: number) => {
 			if (status !== 200) errors++;
 			times.push(ms);
@@ -105,12 +150,20 @@ try {
 		times.sort((a, b) => a - b);
 		const at = (q: number) => times[Math.min(times.length - 1, Math.floor(q * times.length))];
 		const r = { label, requests: times.length, errors, p50: at(0.5), p95: at(0.95) };
-		console.log(`${label}: ${r.requests} requests, p50 ${r.p50.toFixed(1)} ms, p95 ${r.p95.toFixed(1)} ms, non-200: ${errors}`);
+		console.log(
+			`${label}: ${r.requests} requests, p50 ${r.p50.toFixed(1)} ms, p95 ${r.p95.toFixed(1)} ms, non-200: ${errors}`
+		);
 		return r;
 	}
 	const health = await measure('health (floor)', `${base}/api/health`);
-	const board = await measure('risk board API', `${base}/api/v1/board?sort=urgency&page=3&pageSize=25`);
-	const filtered = await measure('risk board API, filtered', `${base}/api/v1/board?status=crossing_soon&depot=2&sort=crossing&dir=desc`);
+	const board = await measure(
+		'risk board API',
+		`${base}/api/v1/board?sort=urgency&page=3&pageSize=25`
+	);
+	const filtered = await measure(
+		'risk board API, filtered',
+		`${base}/api/v1/board?status=crossing_soon&depot=2&sort=crossing&dir=desc`
+	);
 	if (board.errors || filtered.errors) throw new Error('the board answered errors under load');
 	const ratio = board.p95 / health.p95;
 	console.log(`p95 ratio board/health: ${ratio.toFixed(2)} (aim ≤ 5)`);

@@ -23,9 +23,13 @@ function raw(): sqlite3.Database {
 	return new sqlite3.Database(file);
 }
 const run = (d: sqlite3.Database, sql: string, params: unknown[] = []) =>
-	new Promise<void>((resolve, reject) => d.run(sql, params, (err) => (err ? reject(err) : resolve())));
+	new Promise<void>((resolve, reject) =>
+		d.run(sql, params, (err) => (err ? reject(err) : resolve()))
+	);
 const all = (d: sqlite3.Database, sql: string) =>
-	new Promise<unknown[]>((resolve, reject) => d.all(sql, (err, rows) => (err ? reject(err) : resolve(rows))));
+	new Promise<unknown[]>((resolve, reject) =>
+		d.all(sql, (err, rows) => (err ? reject(err) : resolve(rows)))
+	);
 
 await db.migrate();
 const now = new Date(Date.UTC(2026, 11, 1, 2));
@@ -34,10 +38,20 @@ console.log(`Building ${VANS} vans × ${WEEKS} weekly readings…`);
 	const d = raw();
 	const stamp = now.toISOString();
 	await run(d, 'BEGIN');
-	await run(d, `INSERT INTO organisations (id, name, kind, time_zone, created_at, updated_at) VALUES (1, 'Bench fleet', 'fleet', 'Europe/London', ?, ?)`, [stamp, stamp]);
-	await run(d, `INSERT INTO users (organisation_id, email, name, role, notify_statuses, created_at, updated_at, password_hash) VALUES (1, 'bench@fleet.test', 'Bench', 'fleet_manager', '["over_line","crossing_soon"]', ?, ?, 'x')`, [stamp, stamp]);
+	await run(
+		d,
+		`INSERT INTO organisations (id, name, kind, time_zone, created_at, updated_at) VALUES (1, 'Bench fleet', 'fleet', 'Europe/London', ?, ?)`,
+		[stamp, stamp]
+	);
+	await run(
+		d,
+		`INSERT INTO users (organisation_id, email, name, role, notify_statuses, created_at, updated_at, password_hash) VALUES (1, 'bench@fleet.test', 'Bench', 'fleet_manager', '["over_line","crossing_soon"]', ?, ?, 'x')`,
+		[stamp, stamp]
+	);
 	const random = createRandom(7);
-	const insertVan = d.prepare(`INSERT INTO vehicles (id, organisation_id, registration, fuel, created_at, updated_at) VALUES (?, 1, ?, 'en590_diesel', ?, ?)`);
+	const insertVan = d.prepare(
+		`INSERT INTO vehicles (id, organisation_id, registration, fuel, created_at, updated_at) VALUES (?, 1, ?, 'en590_diesel', ?, ?)`
+	);
 	const insertReading = d.prepare(
 		`INSERT INTO readings (vehicle_id, taken_at, odometer_km, delta_p_mbar, condition, source, created_at, updated_at) VALUES (?, ?, ?, ?, 'road_load', 'demo', ?, ?)`
 	);
@@ -62,8 +76,12 @@ console.log(`Building ${VANS} vans × ${WEEKS} weekly readings…`);
 const floorStart = performance.now();
 {
 	const d = raw();
-	const rows = await all(d, 'SELECT vehicle_id, taken_at, odometer_km, delta_p_mbar, condition FROM readings ORDER BY vehicle_id, taken_at');
-	if (rows.length !== VANS * WEEKS) throw new Error(`expected ${VANS * WEEKS} rows, read ${rows.length}`);
+	const rows = await all(
+		d,
+		'SELECT vehicle_id, taken_at, odometer_km, delta_p_mbar, condition FROM readings ORDER BY vehicle_id, taken_at'
+	);
+	if (rows.length !== VANS * WEEKS)
+		throw new Error(`expected ${VANS * WEEKS} rows, read ${rows.length}`);
 	await new Promise<void>((r) => d.close(() => r()));
 }
 const floorSeconds = (performance.now() - floorStart) / 1000;
@@ -75,9 +93,21 @@ if (summary.forecast !== VANS) throw new Error(`forecast ${summary.forecast} of 
 
 const vansPerS = VANS / seconds;
 const ratio = seconds / floorSeconds;
-console.log(`Full run: ${seconds.toFixed(2)} s for ${VANS} vans (${vansPerS.toFixed(0)} vans/s); statuses changed: ${summary.statusChanges}`);
+console.log(
+	`Full run: ${seconds.toFixed(2)} s for ${VANS} vans (${vansPerS.toFixed(0)} vans/s); statuses changed: ${summary.statusChanges}`
+);
 console.log(`Floor (one raw SELECT of ${VANS * WEEKS} rows): ${floorSeconds.toFixed(2)} s`);
 console.log(`Ratio run/floor: ${ratio.toFixed(2)} (aim ≤ 4)`);
 await db.closeDb();
 fs.rmSync(dir, { recursive: true, force: true });
-console.log(JSON.stringify({ bench: 'job', vans: VANS, readings: VANS * WEEKS, seconds: +seconds.toFixed(3), vans_per_s: +vansPerS.toFixed(1), floor_seconds: +floorSeconds.toFixed(3), ratio: +ratio.toFixed(2) }));
+console.log(
+	JSON.stringify({
+		bench: 'job',
+		vans: VANS,
+		readings: VANS * WEEKS,
+		seconds: +seconds.toFixed(3),
+		vans_per_s: +vansPerS.toFixed(1),
+		floor_seconds: +floorSeconds.toFixed(3),
+		ratio: +ratio.toFixed(2)
+	})
+);

@@ -13,15 +13,22 @@ export const JOBS: Job[] = [forecast, advice, housekeeping, outbox];
 export async function runJob(job: Job, now = new Date()) {
 	const started = Date.now();
 	try {
-		const outcome = await runUnderLease(job.name, async ({ runId }) => job.run({ now, runId: job.recorded ? runId : null }), {
-			now
-		});
+		const outcome = await runUnderLease(
+			job.name,
+			async ({ runId }) => job.run({ now, runId: job.recorded ? runId : null }),
+			{
+				now
+			}
+		);
 		if (outcome.skipped) {
 			console.log(`[jobs] ${job.name}: skipped (${outcome.reason})`);
 			return null;
 		}
 		const quiet = !job.recorded && Object.values(outcome.summary).every((v) => v === 0);
-		if (!quiet) console.log(`[jobs] ${job.name}: done in ${Date.now() - started} ms ${JSON.stringify(outcome.summary)}`);
+		if (!quiet)
+			console.log(
+				`[jobs] ${job.name}: done in ${Date.now() - started} ms ${JSON.stringify(outcome.summary)}`
+			);
 		return outcome.summary;
 	} catch (err) {
 		console.error(`[jobs] ${job.name}: failed`, err);
@@ -30,13 +37,22 @@ export async function runJob(job: Job, now = new Date()) {
 }
 
 /** Registers every job (or only those named) once; returns a function that stops them. */
-export function startWorker(timezone = process.env.JOBS_TZ ?? 'Europe/London', only: string[] = []): () => void {
+export function startWorker(
+	timezone = process.env.JOBS_TZ ?? 'Europe/London',
+	only: string[] = []
+): () => void {
 	getDb();
 	const jobs = only.length ? JOBS.filter((j) => only.includes(j.name)) : JOBS;
 	const tasks = jobs.map((job) =>
-		cron.schedule(job.schedule, () => void runJob(job), { timezone, name: job.name, noOverlap: true })
+		cron.schedule(job.schedule, () => void runJob(job), {
+			timezone,
+			name: job.name,
+			noOverlap: true
+		})
 	);
-	console.log(`[jobs] scheduled: ${jobs.map((j) => `${j.name} (${j.schedule})`).join(', ')} in ${timezone}`);
+	console.log(
+		`[jobs] scheduled: ${jobs.map((j) => `${j.name} (${j.schedule})`).join(', ')} in ${timezone}`
+	);
 	return () => tasks.forEach((t) => t.stop());
 }
 

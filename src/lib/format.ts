@@ -10,24 +10,42 @@ export function showPressure(mbar: number | null | undefined, unit: PressureUnit
 }
 
 const LOCALES = { 'en-GB': enGB, 'en-US': enUS, de, fr, nl } as const;
-const localeOf = (tag: string) => LOCALES[tag as keyof typeof LOCALES] ?? LOCALES[tag.split('-')[0] as keyof typeof LOCALES] ?? enGB;
+const localeOf = (tag: string) =>
+	LOCALES[tag as keyof typeof LOCALES] ??
+	LOCALES[tag.split('-')[0] as keyof typeof LOCALES] ??
+	enGB;
 
 /** A date-fns date in the viewer's time zone, so a reading late at night lands on the right day. */
 function zoned(value: string | Date, timeZone: string): TZDate {
 	return new TZDate(new Date(value).getTime(), timeZone);
 }
 
-export function showDate(value: string | Date | null | undefined, locale = 'en-GB', timeZone = 'Europe/London'): string {
+export function showDate(
+	value: string | Date | null | undefined,
+	locale = 'en-GB',
+	timeZone = 'Europe/London'
+): string {
 	if (!value) return '—';
 	return format(zoned(value, timeZone), 'PP', { locale: localeOf(locale) });
 }
 
-export function showDateTime(value: string | Date | null | undefined, locale = 'en-GB', timeZone = 'Europe/London'): string {
+export function showDateTime(
+	value: string | Date | null | undefined,
+	locale = 'en-GB',
+	timeZone = 'Europe/London'
+): string {
 	if (!value) return '—';
 	return format(zoned(value, timeZone), 'PP, p', { locale: localeOf(locale) });
 }
 
-export function showNumber(value: number | null | undefined, decimals = 0, locale = 'en-GB'): string {
+export function showNumber(
+	value: number | null | undefined,
+	decimals = 0,
+	locale = 'en-GB'
+): string {
 	if (value === null || value === undefined || !Number.isFinite(value)) return '—';
-	return new Intl.NumberFormat(locale, { maximumFractionDigits: decimals, minimumFractionDigits: decimals }).format(value);
+	return new Intl.NumberFormat(locale, {
+		maximumFractionDigits: decimals,
+		minimumFractionDigits: decimals
+	}).format(value);
 }

@@ -10,10 +10,14 @@ const mailDir = path.join(process.env.SOOTCAST_E2E_DIR ?? '', 'mailbox');
 async function linkFromMail(to: string, subject: RegExp, pathPrefix: string): Promise<string> {
 	const until = Date.now() + 15_000;
 	while (Date.now() < until) {
-		const files = fs.existsSync(mailDir) ? fs.readdirSync(mailDir).filter((f) => f.endsWith('.eml')) : [];
+		const files = fs.existsSync(mailDir)
+			? fs.readdirSync(mailDir).filter((f) => f.endsWith('.eml'))
+			: [];
 		for (const file of files) {
 			const mail = await simpleParser(fs.readFileSync(path.join(mailDir, file)));
-			const addresses = (Array.isArray(mail.to) ? mail.to : mail.to ? [mail.to] : []).flatMap((a) => a.value.map((v) => v.address));
+			const addresses = (Array.isArray(mail.to) ? mail.to : mail.to ? [mail.to] : []).flatMap((a) =>
+				a.value.map((v) => v.address)
+			);
 			if (addresses.includes(to) && subject.test(mail.subject ?? '')) {
 				const match = new RegExp(`https?://\\S+${pathPrefix}\\S+`).exec(mail.text ?? '');
 				if (match) return new URL(match[0]).pathname;
@@ -31,7 +35,9 @@ async function choosePassword(page: Page, password: string, button: string) {
 	await expect(page.getByRole('status')).toContainText('Your password is set');
 }
 
-test('an admin invites a workshop user, who sets a password from the e-mail and signs in', async ({ page }) => {
+test('an admin invites a workshop user, who sets a password from the e-mail and signs in', async ({
+	page
+}) => {
 	const email = 'kit.marlowe@fenwright.test';
 	await signIn(page, ACCOUNTS.admin.email);
 	await page.getByRole('link', { name: 'Invite' }).click();
@@ -62,7 +68,9 @@ test('a driver resets a forgotten password from the e-mailed link', async ({ pag
 	await expect(page.getByRole('heading', { name: 'Forgotten password' })).toBeVisible();
 	await page.getByLabel('E-mail').fill(email);
 	await page.getByRole('button', { name: 'Send the link' }).click();
-	await expect(page.getByRole('status')).toContainText('a link to choose a new password is on its way');
+	await expect(page.getByRole('status')).toContainText(
+		'a link to choose a new password is on its way'
+	);
 
 	await open(page, await linkFromMail(email, /Reset your Sootcast password/, '/reset/'));
 	await choosePassword(page, 'wren-new-password-2026', 'Save the new password');

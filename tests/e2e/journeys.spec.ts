@@ -14,7 +14,9 @@ async function shoot(page: Page, name: string) {
 async function expectAccessible(page: Page) {
 	const results = await new AxeBuilder({ page }).analyze();
 	const bad = results.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical');
-	expect(bad.map((v) => `${v.id}: ${v.help} (${v.nodes.map((n) => n.target.join(' ')).join('; ')})`)).toEqual([]);
+	expect(
+		bad.map((v) => `${v.id}: ${v.help} (${v.nodes.map((n) => n.target.join(' ')).join('; ')})`)
+	).toEqual([]);
 }
 
 test.describe('each role does its main job', () => {
@@ -25,22 +27,31 @@ test.describe('each role does its main job', () => {
 		await shoot(page, 'fleet-risk-board');
 
 		// The board is sorted most urgent first; the first row is the van to look at.
-		const first = page.getByRole('table', { name: /Vans, most urgent first/ }).getByRole('row').nth(1);
+		const first = page
+			.getByRole('table', { name: /Vans, most urgent first/ })
+			.getByRole('row')
+			.nth(1);
 		await expect(first.getByText(/Over the line|Crossing soon/)).toBeVisible();
 		const registration = (await first.getByRole('link').first().textContent())!.trim();
 		await first.getByRole('link').first().click();
 		await expect(page.getByRole('heading', { level: 1, name: registration })).toBeVisible();
 		await expect(page.getByRole('heading', { name: 'Forecast' })).toBeVisible();
-		await expect(page.getByRole('heading', { name: 'Why it loads up, and what to do' })).toBeVisible();
+		await expect(
+			page.getByRole('heading', { name: 'Why it loads up, and what to do' })
+		).toBeVisible();
 		await expectAccessible(page);
 		await shoot(page, 'fleet-van-story');
 	});
 
-	test('the fleet manager filters the board by status and the view stays in the address', async ({ page }) => {
+	test('the fleet manager filters the board by status and the view stays in the address', async ({
+		page
+	}) => {
 		await signIn(page, ACCOUNTS.fleetManager.email);
 		await page.getByLabel('Status', { exact: true }).selectOption('healthy');
 		await expect(page).toHaveURL(/status=healthy/);
-		await expect(page.getByRole('table', { name: /Vans/ }).getByText('Over the line')).toHaveCount(0);
+		await expect(page.getByRole('table', { name: /Vans/ }).getByText('Over the line')).toHaveCount(
+			0
+		);
 		await page.reload();
 		await expect(page.getByLabel('Status', { exact: true })).toHaveValue('healthy');
 		const download = page.waitForEvent('download');
@@ -55,7 +66,11 @@ test.describe('each role does its main job', () => {
 		await expect(page.getByRole('heading', { name: 'What to check' }).first()).toBeVisible();
 		await expectAccessible(page);
 		await shoot(page, 'workshop-queue');
-		await page.getByRole('listitem').getByRole('link', { name: /^LKD \d+$/ }).first().click();
+		await page
+			.getByRole('listitem')
+			.getByRole('link', { name: /^LKD \d+$/ })
+			.first()
+			.click();
 		await expect(page).toHaveURL(/\/workshop\/vans\/\d+$/);
 		await expect(page.getByRole('link', { name: 'Record a test', exact: true })).toBeVisible();
 		await expectAccessible(page);
@@ -72,7 +87,9 @@ test.describe('each role does its main job', () => {
 
 	test('the administrator sees organisations, people, contracts and job runs', async ({ page }) => {
 		await signIn(page, ACCOUNTS.admin.email);
-		await expect(page.getByRole('table', { name: 'Contracts between fleets and workshops' })).toBeVisible();
+		await expect(
+			page.getByRole('table', { name: 'Contracts between fleets and workshops' })
+		).toBeVisible();
 		await expectAccessible(page);
 		await shoot(page, 'admin-overview');
 		await page.getByRole('link', { name: 'Job runs' }).click();

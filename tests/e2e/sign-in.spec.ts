@@ -31,10 +31,14 @@ test('a driver opening the fleet area gets a clear 403 page', async ({ page }) =
 	await signIn(page, ACCOUNTS.driver.email);
 	const response = await page.goto('/fleet');
 	expect(response?.status()).toBe(403);
-	await expect(page.getByRole('heading', { level: 1 })).toHaveText('This part of Sootcast is for another role.');
+	await expect(page.getByRole('heading', { level: 1 })).toHaveText(
+		'This part of Sootcast is for another role.'
+	);
 });
 
-test('a signed-out visitor is sent to sign in and comes back to the page asked for', async ({ page }) => {
+test('a signed-out visitor is sent to sign in and comes back to the page asked for', async ({
+	page
+}) => {
 	await open(page, '/settings');
 	await expect(page).toHaveURL(/\/login\?redirectTo=%2Fsettings/);
 	await page.getByLabel('E-mail').fill(ACCOUNTS.fleetManager.email);

@@ -39,19 +39,41 @@ interface Row {
 	path: () => string;
 	expect: Record<Who, Expect>;
 }
-const everyone = (v: Expect, overrides: Partial<Record<Who, Expect>> = {}): Record<Who, Expect> => ({
-	anon: 'login', admin: v, fleet: v, otherFleet: v, workshop: v, otherWorkshop: v, driver: v, ...overrides
+const everyone = (
+	v: Expect,
+	overrides: Partial<Record<Who, Expect>> = {}
+): Record<Who, Expect> => ({
+	anon: 'login',
+	admin: v,
+	fleet: v,
+	otherFleet: v,
+	workshop: v,
+	otherWorkshop: v,
+	driver: v,
+	...overrides
 });
 
 const rows: Row[] = [
 	{ path: () => '/fleet', expect: everyone(403, { fleet: 200, otherFleet: 200 }) },
-	{ path: () => `/fleet/vans/${ids.larkspurPoolVan}`, expect: everyone(403, { fleet: 200, otherFleet: 404 }) },
-	{ path: () => `/fleet/vans/${ids.thistledownVan}`, expect: everyone(403, { fleet: 404, otherFleet: 200 }) },
+	{
+		path: () => `/fleet/vans/${ids.larkspurPoolVan}`,
+		expect: everyone(403, { fleet: 200, otherFleet: 404 })
+	},
+	{
+		path: () => `/fleet/vans/${ids.thistledownVan}`,
+		expect: everyone(403, { fleet: 404, otherFleet: 200 })
+	},
 	{ path: () => '/fleet/vans/99999999', expect: everyone(403, { fleet: 404, otherFleet: 404 }) },
 	{ path: () => '/workshop', expect: everyone(403, { workshop: 200, otherWorkshop: 200 }) },
 	// Copperbeech's contract with Larkspur has ended, so its van is no longer theirs to see.
-	{ path: () => `/workshop/vans/${ids.larkspurPoolVan}`, expect: everyone(403, { workshop: 200, otherWorkshop: 404 }) },
-	{ path: () => `/workshop/vans/${ids.thistledownVan}`, expect: everyone(403, { workshop: 404, otherWorkshop: 200 }) },
+	{
+		path: () => `/workshop/vans/${ids.larkspurPoolVan}`,
+		expect: everyone(403, { workshop: 200, otherWorkshop: 404 })
+	},
+	{
+		path: () => `/workshop/vans/${ids.thistledownVan}`,
+		expect: everyone(403, { workshop: 404, otherWorkshop: 200 })
+	},
 	{ path: () => '/driver', expect: everyone(403, { driver: 200 }) },
 	{ path: () => '/admin', expect: everyone(403, { admin: 200 }) },
 	{ path: () => '/settings', expect: everyone(200) },
@@ -62,7 +84,13 @@ const rows: Row[] = [
 	},
 	{
 		path: () => `/api/v1/vehicles/${ids.larkspurPoolVan}`,
-		expect: everyone(200, { anon: 401, admin: 403, otherFleet: 404, otherWorkshop: 404, driver: 404 })
+		expect: everyone(200, {
+			anon: 401,
+			admin: 403,
+			otherFleet: 404,
+			otherWorkshop: 404,
+			driver: 404
+		})
 	},
 	{
 		path: () => `/api/v1/vehicles/${ids.thistledownVan}`,
@@ -72,7 +100,15 @@ const rows: Row[] = [
 
 describe('role × route access matrix', () => {
 	for (const row of rows) {
-		for (const who of ['anon', 'admin', 'fleet', 'otherFleet', 'workshop', 'otherWorkshop', 'driver'] as Who[]) {
+		for (const who of [
+			'anon',
+			'admin',
+			'fleet',
+			'otherFleet',
+			'workshop',
+			'otherWorkshop',
+			'driver'
+		] as Who[]) {
 			it(`${who} requesting ${row.path.toString().replace(/^\(\) => /, '')} gets ${row.expect[who]}`, async () => {
 				const res = await clients[who].request(row.path(), { headers: { accept: 'text/html' } });
 				const expected = row.expect[who];
@@ -96,7 +132,7 @@ describe('role × route access matrix', () => {
 		expect(res.headers.get('location')).toMatch(/^\/login/);
 	});
 
-	it('a van list never carries another fleet\'s registrations', async () => {
+	it("a van list never carries another fleet's registrations", async () => {
 		const res = await clients.workshop.request('/api/v1/vehicles?pageSize=100');
 		const body = (await res.json()) as { items: { registration: string }[]; total: number };
 		expect(body.total).toBe(40);

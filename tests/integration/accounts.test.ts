@@ -41,7 +41,10 @@ describe('invitations', () => {
 
 		const visitor = new Client(baseUrl);
 		expect(await (await visitor.request(path)).text()).toContain('Noor Achebe');
-		const set = await visitor.request(path, form({ password: 'a-long-new-password', confirm: 'a-long-new-password' }));
+		const set = await visitor.request(
+			path,
+			form({ password: 'a-long-new-password', confirm: 'a-long-new-password' })
+		);
 		expect(set.status).toBe(303);
 		expect(set.headers.get('location')).toBe('/login?password=set');
 
@@ -54,16 +57,27 @@ describe('invitations', () => {
 	});
 
 	it('a fleet manager may invite drivers to their own fleet but not workshop users', async () => {
-		const refused = await fleet.request('/fleet/people?/invite', form({ name: 'Ola Witt', email: 'ola.witt@larkspur.test', role: 'workshop' }));
+		const refused = await fleet.request(
+			'/fleet/people?/invite',
+			form({ name: 'Ola Witt', email: 'ola.witt@larkspur.test', role: 'workshop' })
+		);
 		expect(refused.status).toBe(400);
-		expect(await refused.text()).toContain('A fleet manager can invite drivers and other fleet managers.');
-		const ok = await fleet.request('/fleet/people?/invite', form({ name: 'Ola Witt', email: 'ola.witt@larkspur.test', role: 'driver' }));
+		expect(await refused.text()).toContain(
+			'A fleet manager can invite drivers and other fleet managers.'
+		);
+		const ok = await fleet.request(
+			'/fleet/people?/invite',
+			form({ name: 'Ola Witt', email: 'ola.witt@larkspur.test', role: 'driver' })
+		);
 		expect(ok.status).toBe(303);
 		await waitForMail(mailDir, 'ola.witt@larkspur.test', /invited you/);
 	});
 
 	it('refuses an invitation for an e-mail that already has an account, with a field message', async () => {
-		const res = await fleet.request('/fleet/people?/invite', form({ name: 'Dup', email: DEMO_ACCOUNTS.driver.email, role: 'driver' }));
+		const res = await fleet.request(
+			'/fleet/people?/invite',
+			form({ name: 'Dup', email: DEMO_ACCOUNTS.driver.email, role: 'driver' })
+		);
 		expect(res.status).toBe(400);
 		expect(await res.text()).toContain('Someone with that e-mail already has an account');
 	});
@@ -82,7 +96,10 @@ describe('invitations', () => {
 		const token = await issueActionToken(someone!.id, 'invite', longAgo);
 		const res = await new Client(baseUrl).request(`/welcome/${token}`);
 		expect(await res.text()).toContain('This link is not valid any more');
-		const post = await new Client(baseUrl).request(`/welcome/${token}`, form({ password: 'another-password-1', confirm: 'another-password-1' }));
+		const post = await new Client(baseUrl).request(
+			`/welcome/${token}`,
+			form({ password: 'another-password-1', confirm: 'another-password-1' })
+		);
 		expect(post.status).toBe(400);
 	});
 });
@@ -92,16 +109,25 @@ const RESET_EMAIL = 'caspian.moyo@larkspur.test';
 
 describe('password reset', () => {
 	it('answers the same for unknown and known addresses, and the known one gets a working link', async () => {
-		const unknown = await new Client(baseUrl).request('/forgot', form({ email: 'nobody@nowhere.test' }));
+		const unknown = await new Client(baseUrl).request(
+			'/forgot',
+			form({ email: 'nobody@nowhere.test' })
+		);
 		const known = await new Client(baseUrl).request('/forgot', form({ email: RESET_EMAIL }));
 		expect(unknown.headers.get('location')).toBe('/forgot?sent');
 		expect(known.headers.get('location')).toBe('/forgot?sent');
 
 		const mail = await waitForMail(mailDir, RESET_EMAIL, /Reset your Sootcast password/);
 		const path = new URL(firstLink(mail.text ?? '', '/reset/')).pathname;
-		const mismatch = await new Client(baseUrl).request(path, form({ password: 'brand-new-password', confirm: 'something-else' }));
+		const mismatch = await new Client(baseUrl).request(
+			path,
+			form({ password: 'brand-new-password', confirm: 'something-else' })
+		);
 		expect(await mismatch.text()).toContain('The two passwords are not the same');
-		const ok = await new Client(baseUrl).request(path, form({ password: 'brand-new-password', confirm: 'brand-new-password' }));
+		const ok = await new Client(baseUrl).request(
+			path,
+			form({ password: 'brand-new-password', confirm: 'brand-new-password' })
+		);
 		expect(ok.status).toBe(303);
 		expect((await new Client(baseUrl).signIn(RESET_EMAIL, 'brand-new-password')).status).toBe(303);
 		expect((await new Client(baseUrl).signIn(RESET_EMAIL)).status).toBe(400);

@@ -22,22 +22,65 @@ beforeAll(async () => {
 
 describe('administration', () => {
 	it('adds an organisation and a contract, and ends the contract', async () => {
-		expect((await admin.request('/admin?/createOrganisation', form({ name: 'Wyvern Parcels', kind: 'fleet' }))).status).toBe(303);
-		const dup = await admin.request('/admin?/createOrganisation', form({ name: 'Wyvern Parcels', kind: 'fleet' }));
+		expect(
+			(
+				await admin.request(
+					'/admin?/createOrganisation',
+					form({ name: 'Wyvern Parcels', kind: 'fleet' })
+				)
+			).status
+		).toBe(303);
+		const dup = await admin.request(
+			'/admin?/createOrganisation',
+			form({ name: 'Wyvern Parcels', kind: 'fleet' })
+		);
 		expect(dup.status).toBe(400);
 		expect(await dup.text()).toContain('An organisation with that name exists already');
 
 		const fleet = await db.Organisation.findOne({ where: { name: 'Wyvern Parcels' } });
 		const workshop = await db.Organisation.findOne({ where: { name: 'Fenwright Diesel Clinic' } });
-		const backwards = await admin.request('/admin?/createContract', form({ fleetId: String(fleet!.id), workshopId: String(workshop!.id), startsOn: '2026-06-01', endsOn: '2026-05-01' }));
+		const backwards = await admin.request(
+			'/admin?/createContract',
+			form({
+				fleetId: String(fleet!.id),
+				workshopId: String(workshop!.id),
+				startsOn: '2026-06-01',
+				endsOn: '2026-05-01'
+			})
+		);
 		expect(await backwards.text()).toContain('The last day cannot be before the first');
-		const wrongKind = await admin.request('/admin?/createContract', form({ fleetId: String(workshop!.id), workshopId: String(workshop!.id), startsOn: '2026-06-01' }));
+		const wrongKind = await admin.request(
+			'/admin?/createContract',
+			form({
+				fleetId: String(workshop!.id),
+				workshopId: String(workshop!.id),
+				startsOn: '2026-06-01'
+			})
+		);
 		expect(await wrongKind.text()).toContain('Choose a fleet');
 
-		expect((await admin.request('/admin?/createContract', form({ fleetId: String(fleet!.id), workshopId: String(workshop!.id), startsOn: '2026-06-01' }))).status).toBe(303);
+		expect(
+			(
+				await admin.request(
+					'/admin?/createContract',
+					form({
+						fleetId: String(fleet!.id),
+						workshopId: String(workshop!.id),
+						startsOn: '2026-06-01'
+					})
+				)
+			).status
+		).toBe(303);
 		const contract = await db.Contract.findOne({ where: { fleetId: fleet!.id } });
 		expect(contract!.endsOn).toBeNull();
-		expect((await admin.request('/admin?/endContract', form({ contractId: String(contract!.id), endsOn: '2026-09-30' }))).status).toBe(303);
+		expect(
+			(
+				await admin.request(
+					'/admin?/endContract',
+					form({ contractId: String(contract!.id), endsOn: '2026-09-30' })
+				)
+			).status
+		).toBe(303);
 		await contract!.reload();
 		expect(contract!.endsOn).toBe('2026-09-30');
 	});
@@ -48,11 +91,21 @@ describe('administration', () => {
 		expect((await session.signIn(driver!.email)).status).toBe(303);
 		expect((await session.request('/driver')).status).toBe(200);
 
-		const wrong = await admin.request('/admin?/changePerson', form({ userId: String(driver!.id), role: 'workshop', active: 'on' }));
+		const wrong = await admin.request(
+			'/admin?/changePerson',
+			form({ userId: String(driver!.id), role: 'workshop', active: 'on' })
+		);
 		expect(wrong.status).toBe(400);
 		expect(await wrong.text()).toContain('That role does not fit');
 
-		expect((await admin.request('/admin?/changePerson', form({ userId: String(driver!.id), role: 'driver' }))).status).toBe(303);
+		expect(
+			(
+				await admin.request(
+					'/admin?/changePerson',
+					form({ userId: String(driver!.id), role: 'driver' })
+				)
+			).status
+		).toBe(303);
 		const after = await session.request('/driver');
 		expect(after.status).toBe(303);
 		expect(after.headers.get('location')).toMatch(/^\/login/);
@@ -61,7 +114,10 @@ describe('administration', () => {
 
 	it('will not let an administrator lock themselves out', async () => {
 		const me = await db.User.findOne({ where: { email: DEMO_ACCOUNTS.admin.email } });
-		const res = await admin.request('/admin?/changePerson', form({ userId: String(me!.id), role: 'admin' }));
+		const res = await admin.request(
+			'/admin?/changePerson',
+			form({ userId: String(me!.id), role: 'admin' })
+		);
 		expect(res.status).toBe(400);
 		expect(await res.text()).toContain('You cannot remove your own administrator access');
 	});

@@ -25,10 +25,20 @@ beforeAll(async () => {
 	await db.migrate();
 	const fleet = await make.organisation('Brackenholt Removals', 'fleet');
 	const busy = await make.person(fleet.id, 'busy.driver@brackenholt.test', 'driver');
-	const out = await make.person(fleet.id, 'opted.out@brackenholt.test', 'driver', { adviceOptOut: true });
+	const out = await make.person(fleet.id, 'opted.out@brackenholt.test', 'driver', {
+		adviceOptOut: true
+	});
 	const idle = await make.person(fleet.id, 'no.trips@brackenholt.test', 'driver');
-	for (const [person, reg] of [[busy, 'BRH 1'], [out, 'BRH 2'], [idle, 'BRH 3']] as const) {
-		const van = await db.Vehicle.create({ organisationId: fleet.id, registration: reg, driverId: person.id });
+	for (const [person, reg] of [
+		[busy, 'BRH 1'],
+		[out, 'BRH 2'],
+		[idle, 'BRH 3']
+	] as const) {
+		const van = await db.Vehicle.create({
+			organisationId: fleet.id,
+			registration: reg,
+			driverId: person.id
+		});
 		ids[reg] = van.id;
 	}
 	// Last week: nine short hops a day on Tuesday–Friday, no long steady run.
@@ -36,8 +46,24 @@ beforeAll(async () => {
 	for (let day = 1; day <= 4; day++) {
 		for (let k = 0; k < 9; k++) {
 			const start = new Date(monday.getTime() - (7 - day) * 86_400_000 + (8 + k) * 3_600_000);
-			trips.push({ vehicleId: ids['BRH 1'], driverId: busy.id, startedAt: start, endedAt: new Date(start.getTime() + 9 * 60_000), distanceKm: 3.5, idleMinutes: 2, meanSpeedKmh: 23 });
-			trips.push({ vehicleId: ids['BRH 2'], driverId: out.id, startedAt: start, endedAt: new Date(start.getTime() + 9 * 60_000), distanceKm: 3.5, idleMinutes: 2, meanSpeedKmh: 23 });
+			trips.push({
+				vehicleId: ids['BRH 1'],
+				driverId: busy.id,
+				startedAt: start,
+				endedAt: new Date(start.getTime() + 9 * 60_000),
+				distanceKm: 3.5,
+				idleMinutes: 2,
+				meanSpeedKmh: 23
+			});
+			trips.push({
+				vehicleId: ids['BRH 2'],
+				driverId: out.id,
+				startedAt: start,
+				endedAt: new Date(start.getTime() + 9 * 60_000),
+				distanceKm: 3.5,
+				idleMinutes: 2,
+				meanSpeedKmh: 23
+			});
 		}
 	}
 	await db.Trip.bulkCreate(trips);
@@ -56,10 +82,14 @@ describe('the weekly driver advice', () => {
 			expect(mails.map((m) => recipients(m)[0])).toEqual(['busy.driver@brackenholt.test']);
 			const text = mails[0].text ?? '';
 			// 36 short trips, none long enough: the note says so and asks for one steady run.
-			expect(text).toContain('0 of your 36 trips last week were long enough for the filter to clean itself.');
+			expect(text).toContain(
+				'0 of your 36 trips last week were long enough for the filter to clean itself.'
+			);
 			expect(text).toMatch(/One \d+-minute run at steady speed/);
 			expect(text).toContain('36 of your 36 trips were short hops');
-			expect(JSON.stringify(mails[0].headers.get('list'))).toContain('http://sootcast.test/unsubscribe/');
+			expect(JSON.stringify(mails[0].headers.get('list'))).toContain(
+				'http://sootcast.test/unsubscribe/'
+			);
 
 			const again = await advice.queueWeeklyAdvice(new Date(monday.getTime() + 3 * 3_600_000));
 			expect(again.queued).toBe(0);
@@ -76,7 +106,9 @@ describe('the weekly driver advice', () => {
 		expect(await advice.unsubscribeFromAdvice(`${ids.busy}.${'A'.repeat(32)}`)).toBe(false);
 		expect(await advice.unsubscribeFromAdvice(token)).toBe(true);
 		expect((await db.User.findByPk(ids.busy))!.adviceOptOut).toBe(true);
-		expect((await advice.queueWeeklyAdvice(new Date(monday.getTime() + 8 * 86_400_000))).queued).toBe(0);
+		expect(
+			(await advice.queueWeeklyAdvice(new Date(monday.getTime() + 8 * 86_400_000))).queued
+		).toBe(0);
 	});
 
 	it('labels weeks the ISO 8601 way', () => {

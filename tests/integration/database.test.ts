@@ -16,7 +16,13 @@ describe('the SQLite database', () => {
 
 	it('refuses a reading for a van that does not exist (foreign keys on)', async () => {
 		await expect(
-			db.Reading.create({ vehicleId: 987654321, takenAt: new Date(), deltaPMbar: 120, condition: 'idle', source: 'manual' })
+			db.Reading.create({
+				vehicleId: 987654321,
+				takenAt: new Date(),
+				deltaPMbar: 120,
+				condition: 'idle',
+				source: 'manual'
+			})
 		).rejects.toThrow(/FOREIGN KEY/i);
 	});
 
@@ -25,8 +31,20 @@ describe('the SQLite database', () => {
 		await expect(
 			db.getDb().transaction(async () => {
 				const van = await db.Vehicle.findOne();
-				await db.Reading.create({ vehicleId: van!.id, takenAt: new Date(), deltaPMbar: 99, condition: 'idle', source: 'manual' });
-				await db.Reading.create({ vehicleId: 987654321, takenAt: new Date(), deltaPMbar: 120, condition: 'idle', source: 'manual' });
+				await db.Reading.create({
+					vehicleId: van!.id,
+					takenAt: new Date(),
+					deltaPMbar: 99,
+					condition: 'idle',
+					source: 'manual'
+				});
+				await db.Reading.create({
+					vehicleId: 987654321,
+					takenAt: new Date(),
+					deltaPMbar: 120,
+					condition: 'idle',
+					source: 'manual'
+				});
 			})
 		).rejects.toThrow(/FOREIGN KEY/i);
 		expect(await db.Reading.count()).toBe(before);

@@ -32,7 +32,8 @@ function freePort(): Promise<number> {
 	});
 }
 
-const runJob = (at: Date) => runUnderLease('forecast', ({ now: n, runId }) => runNightlyForecast(n, runId), { now: at });
+const runJob = (at: Date) =>
+	runUnderLease('forecast', ({ now: n, runId }) => runNightlyForecast(n, runId), { now: at });
 
 async function digestsTo(email: string) {
 	return (await readMailbox(mailDir)).filter((m) => recipients(m).includes(email));
@@ -47,21 +48,45 @@ beforeAll(async () => {
 	await make.contract(fleet.id, garage.id, '2025-01-01');
 	await make.contract(fleet.id, former.id, '2024-01-01', '2025-06-30');
 	await make.person(fleet.id, 'manager@gorsefield.test', 'fleet_manager');
-	await make.person(fleet.id, 'quiet.manager@gorsefield.test', 'fleet_manager', { notifyDigest: false });
+	await make.person(fleet.id, 'quiet.manager@gorsefield.test', 'fleet_manager', {
+		notifyDigest: false
+	});
 	await make.person(fleet.id, 'driver@gorsefield.test', 'driver');
 	await make.person(garage.id, 'tech@hollin.test', 'workshop');
 	await make.person(former.id, 'tech@oldquarry.test', 'workshop');
 
 	// Past the line for weeks; rising steadily towards it without regenerating; comfortably low.
 	const over = await make.van(fleet.id, 'GFC 1');
-	await make.readings(over.id, new Date(now.getTime() - 86_400_000), 12, 3, (i) => 330 + (i % 3) * 4);
+	await make.readings(
+		over.id,
+		new Date(now.getTime() - 86_400_000),
+		12,
+		3,
+		(i) => 330 + (i % 3) * 4
+	);
 	const rising = await make.van(fleet.id, 'GFC 2');
-	await make.readings(rising.id, new Date(now.getTime() - 86_400_000), 12, 3, (i) => 170 + i * 9 + (i % 2) * 2);
+	await make.readings(
+		rising.id,
+		new Date(now.getTime() - 86_400_000),
+		12,
+		3,
+		(i) => 170 + i * 9 + (i % 2) * 2
+	);
 	const fine = await make.van(fleet.id, 'GFC 3');
-	await make.readings(fine.id, new Date(now.getTime() - 86_400_000), 12, 3, (i) => 120 + (i % 3) * 3);
+	await make.readings(
+		fine.id,
+		new Date(now.getTime() - 86_400_000),
+		12,
+		3,
+		(i) => 120 + (i % 3) * 3
+	);
 	const broken = await make.van(fleet.id, 'GFC 4');
 	await make.readings(broken.id, new Date(now.getTime() - 86_400_000), 8, 3, (i) => 150 + i);
-	await db.getDb().query(`UPDATE readings SET taken_at = 'not a date' WHERE vehicle_id = ${broken.id} AND id = (SELECT MIN(id) FROM readings WHERE vehicle_id = ${broken.id})`);
+	await db
+		.getDb()
+		.query(
+			`UPDATE readings SET taken_at = 'not a date' WHERE vehicle_id = ${broken.id} AND id = (SELECT MIN(id) FROM readings WHERE vehicle_id = ${broken.id})`
+		);
 	Object.assign(ids, { over: over.id, rising: rising.id, fine: fine.id, broken: broken.id });
 });
 
@@ -90,7 +115,11 @@ describe('the nightly forecast job', () => {
 				expect(mails[0].text).toContain(`http://sootcast.test/${area}/vans/${ids.rising}`);
 				expect(mails[0].html).toContain('GFC 2');
 			}
-			for (const email of ['quiet.manager@gorsefield.test', 'driver@gorsefield.test', 'tech@oldquarry.test']) {
+			for (const email of [
+				'quiet.manager@gorsefield.test',
+				'driver@gorsefield.test',
+				'tech@oldquarry.test'
+			]) {
 				expect(await digestsTo(email), email).toHaveLength(0);
 			}
 			const total = (await readMailbox(mailDir)).length;
@@ -111,7 +140,13 @@ describe('the nightly forecast job', () => {
 		// A van joins the fleet with a filter already past the line; the next night tells both sides.
 		const fleet = await db.Organisation.findOne({ where: { name: 'Gorsefield Couriers' } });
 		const late = await make.van(fleet!.id, 'GFC 5');
-		await make.readings(late.id, new Date(now.getTime() + 6 * 86_400_000), 12, 3, (i) => 335 + (i % 3) * 4);
+		await make.readings(
+			late.id,
+			new Date(now.getTime() + 6 * 86_400_000),
+			12,
+			3,
+			(i) => 335 + (i % 3) * 4
+		);
 		const nextNight = new Date(now.getTime() + 7 * 86_400_000);
 		const down = (await runJob(nextNight)) as { summary: Record<string, number> };
 		expect(down.summary.messagesQueued).toBe(2);

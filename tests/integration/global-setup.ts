@@ -28,7 +28,8 @@ function freePort(): Promise<number> {
 async function waitForHealth(url: string, server: ChildProcess, timeoutMs = 30_000) {
 	const until = Date.now() + timeoutMs;
 	while (Date.now() < until) {
-		if (server.exitCode !== null) throw new Error(`The server exited early (code ${server.exitCode}).`);
+		if (server.exitCode !== null)
+			throw new Error(`The server exited early (code ${server.exitCode}).`);
 		try {
 			const res = await fetch(`${url}/api/health`);
 			if (res.ok) return;
@@ -46,7 +47,8 @@ async function waitForHealth(url: string, server: ChildProcess, timeoutMs = 30_0
  */
 export default async function setup(project: TestProject) {
 	const buildEntry = path.resolve('build/index.js');
-	if (!fs.existsSync(buildEntry)) throw new Error('No build found: run `npm run build` before the integration tests.');
+	if (!fs.existsSync(buildEntry))
+		throw new Error('No build found: run `npm run build` before the integration tests.');
 	const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'sootcast-it-'));
 	const databaseUrl = `sqlite:${path.join(dir, 'sootcast.db')}`;
 	process.env.DATABASE_URL = databaseUrl;

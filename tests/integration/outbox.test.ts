@@ -38,16 +38,33 @@ describe('the outbox', () => {
 		const t0 = new Date();
 		const keys = ['a', 'b', 'c'].map((k) => `outbox-test:${t0.getTime()}:${k}`);
 		for (const key of keys) {
-			expect(await outbox.queueMail({ recipient: `${key.slice(-1)}@outbox.test`, subject: 'Sink test', text: 'hello', dedupeKey: key }, t0)).toBe(true);
+			expect(
+				await outbox.queueMail(
+					{
+						recipient: `${key.slice(-1)}@outbox.test`,
+						subject: 'Sink test',
+						text: 'hello',
+						dedupeKey: key
+					},
+					t0
+				)
+			).toBe(true);
 		}
 		// Queuing the same key again adds nothing.
-		expect(await outbox.queueMail({ recipient: 'a@outbox.test', subject: 'Sink test', text: 'hello', dedupeKey: keys[0] }, t0)).toBe(false);
+		expect(
+			await outbox.queueMail(
+				{ recipient: 'a@outbox.test', subject: 'Sink test', text: 'hello', dedupeKey: keys[0] },
+				t0
+			)
+		).toBe(false);
 
 		const down = await outbox.deliverDueMail(t0);
 		expect(down.sent).toBe(0);
 		expect(down.retrying).toBeGreaterThanOrEqual(3);
 		const pending = await db.OutboxMessage.findAll({ where: { dedupeKey: keys } });
-		expect(pending.every((m) => m.state === 'pending' && m.attempts === 1 && m.lastError)).toBe(true);
+		expect(pending.every((m) => m.state === 'pending' && m.attempts === 1 && m.lastError)).toBe(
+			true
+		);
 
 		// Before the back-off has passed nothing is retried.
 		expect((await outbox.deliverDueMail(new Date(t0.getTime() + 10_000))).sent).toBe(0);
@@ -59,7 +76,11 @@ describe('the outbox', () => {
 			expect(up.sent).toBeGreaterThanOrEqual(3);
 			expect((await outbox.deliverDueMail(new Date(later.getTime() + 3_600_000))).sent).toBe(0);
 			const received = (await readMailbox(dir)).filter((m) => m.subject === 'Sink test');
-			expect(received.map((m) => recipients(m)[0]).sort()).toEqual(['a@outbox.test', 'b@outbox.test', 'c@outbox.test']);
+			expect(received.map((m) => recipients(m)[0]).sort()).toEqual([
+				'a@outbox.test',
+				'b@outbox.test',
+				'c@outbox.test'
+			]);
 		} finally {
 			await sink.close();
 			mailer.configureMailTransport(inject('smtpUrl'));
@@ -75,7 +96,10 @@ describe('job leases', () => {
 			await new Promise((r) => setTimeout(r, 200));
 			return { done: 1 };
 		};
-		const [a, b] = await Promise.all([lease.runUnderLease('lease-test', work), lease.runUnderLease('lease-test', work)]);
+		const [a, b] = await Promise.all([
+			lease.runUnderLease('lease-test', work),
+			lease.runUnderLease('lease-test', work)
+		]);
 		expect(worked).toBe(1);
 		expect([a.skipped, b.skipped].sort()).toEqual([false, true]);
 		// Once released, the next run goes ahead.
@@ -87,6 +111,8 @@ describe('job leases', () => {
 		const now = new Date();
 		expect(await acquireLease('dead-holder', 'crashed-process', 1_000, now)).toBe(true);
 		expect(await acquireLease('dead-holder', 'someone-else', 1_000, now)).toBe(false);
-		expect(await acquireLease('dead-holder', 'someone-else', 1_000, new Date(now.getTime() + 5_000))).toBe(true);
+		expect(
+			await acquireLease('dead-holder', 'someone-else', 1_000, new Date(now.getTime() + 5_000))
+		).toBe(true);
 	});
 });

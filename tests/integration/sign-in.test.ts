@@ -21,7 +21,10 @@ describe('sign-in', () => {
 
 	it('answers an unknown e-mail and a wrong password with the same neutral message', async () => {
 		const unknown = await new Client(baseUrl).signIn('nobody@larkspur.test', 'whatever-password');
-		const wrong = await new Client(baseUrl).signIn(DEMO_ACCOUNTS.otherWorkshop.email, 'not-the-password');
+		const wrong = await new Client(baseUrl).signIn(
+			DEMO_ACCOUNTS.otherWorkshop.email,
+			'not-the-password'
+		);
 		expect(unknown.status).toBe(400);
 		expect(wrong.status).toBe(400);
 		const message = 'That e-mail and password do not match an account.';
@@ -59,7 +62,11 @@ describe('sign-in', () => {
 		const res = await client.request('/login', {
 			method: 'POST',
 			headers: { 'content-type': 'application/x-www-form-urlencoded', accept: 'text/html' },
-			body: new URLSearchParams({ email: DEMO_ACCOUNTS.fleetManager.email, password: 'sootcast-demo', redirectTo: '//evil.test/x' })
+			body: new URLSearchParams({
+				email: DEMO_ACCOUNTS.fleetManager.email,
+				password: 'sootcast-demo',
+				redirectTo: '//evil.test/x'
+			})
 		});
 		expect(res.headers.get('location')).toBe('/fleet');
 	});

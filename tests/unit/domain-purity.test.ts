@@ -18,16 +18,34 @@ function sources(dir: string): string[] {
 }
 
 function importsOf(file: string): string[] {
-	const source = ts.createSourceFile(file, fs.readFileSync(file, 'utf8'), ts.ScriptTarget.Latest, true);
+	const source = ts.createSourceFile(
+		file,
+		fs.readFileSync(file, 'utf8'),
+		ts.ScriptTarget.Latest,
+		true
+	);
 	const found: string[] = [];
 	const visit = (node: ts.Node) => {
-		if ((ts.isImportDeclaration(node) || ts.isExportDeclaration(node)) && node.moduleSpecifier && ts.isStringLiteral(node.moduleSpecifier)) {
+		if (
+			(ts.isImportDeclaration(node) || ts.isExportDeclaration(node)) &&
+			node.moduleSpecifier &&
+			ts.isStringLiteral(node.moduleSpecifier)
+		) {
 			found.push(node.moduleSpecifier.text);
 		}
-		if (ts.isCallExpression(node) && node.expression.kind === ts.SyntaxKind.ImportKeyword && ts.isStringLiteral(node.arguments[0])) {
+		if (
+			ts.isCallExpression(node) &&
+			node.expression.kind === ts.SyntaxKind.ImportKeyword &&
+			ts.isStringLiteral(node.arguments[0])
+		) {
 			found.push(node.arguments[0].text);
 		}
-		if (ts.isCallExpression(node) && ts.isIdentifier(node.expression) && node.expression.text === 'require') found.push('require()');
+		if (
+			ts.isCallExpression(node) &&
+			ts.isIdentifier(node.expression) &&
+			node.expression.text === 'require'
+		)
+			found.push('require()');
 		ts.forEachChild(node, visit);
 	};
 	visit(source);
@@ -54,14 +72,23 @@ describe('the domain is pure', () => {
 
 	it('flags server, framework, database and Node imports', () => {
 		const probe = path.join(DOMAIN, 'probe.ts');
-		for (const bad of ['../server/db', '$app/server', '@sveltejs/kit', 'sequelize', 'node:fs', '../../routes/x']) {
+		for (const bad of [
+			'../server/db',
+			'$app/server',
+			'@sveltejs/kit',
+			'sequelize',
+			'node:fs',
+			'../../routes/x'
+		]) {
 			expect(isPureImport(probe, bad), bad).toBe(false);
 		}
 		expect(isPureImport(probe, './stats/ols')).toBe(true);
 	});
 
 	it('reads no clock: Date.now() and argument-less new Date() stay out', () => {
-		const offenders = files.filter((f) => /Date\.now\(\)|new Date\(\)/.test(fs.readFileSync(f, 'utf8')));
+		const offenders = files.filter((f) =>
+			/Date\.now\(\)|new Date\(\)/.test(fs.readFileSync(f, 'utf8'))
+		);
 		expect(offenders.map((f) => path.relative(process.cwd(), f))).toEqual([]);
 	});
 });

@@ -13,7 +13,8 @@ const HTTP_METHODS = ['GET', 'POST', 'PUT', 'PATCH', 'DELETE'];
 /** Public on purpose, with the reason. */
 const PUBLIC_ENDPOINTS: Record<string, string> = {
 	'src/routes/api/health/+server.ts': 'health check for load balancers and benchmarks',
-	'src/routes/api/v1/openapi.json/+server.ts': 'the API description, read by integrators before they have a token'
+	'src/routes/api/v1/openapi.json/+server.ts':
+		'the API description, read by integrators before they have a token'
 };
 /** Folders of (app) that every signed-in role may open (not an area of one role). */
 const SHARED_APP_FOLDERS = ['settings'];
@@ -21,15 +22,20 @@ const SHARED_APP_FOLDERS = ['settings'];
 const ROUTES = path.resolve('src/routes');
 
 function walk(dir: string): string[] {
-	return fs.readdirSync(dir, { withFileTypes: true }).flatMap((e) =>
-		e.isDirectory() ? walk(path.join(dir, e.name)) : [path.join(dir, e.name)]
-	);
+	return fs
+		.readdirSync(dir, { withFileTypes: true })
+		.flatMap((e) => (e.isDirectory() ? walk(path.join(dir, e.name)) : [path.join(dir, e.name)]));
 }
 
 function callsGuard(node: ts.Node): boolean {
 	let found = false;
 	const visit = (n: ts.Node) => {
-		if (ts.isCallExpression(n) && ts.isIdentifier(n.expression) && GUARDS.includes(n.expression.text)) found = true;
+		if (
+			ts.isCallExpression(n) &&
+			ts.isIdentifier(n.expression) &&
+			GUARDS.includes(n.expression.text)
+		)
+			found = true;
 		if (!found) ts.forEachChild(n, visit);
 	};
 	visit(node);
@@ -44,7 +50,9 @@ export function unguardedHandlers(source: string, fileName = 'x.ts'): string[] {
 		if (!body || !callsGuard(body)) missing.push(name);
 	};
 	for (const stmt of file.statements) {
-		const exported = ts.canHaveModifiers(stmt) && ts.getModifiers(stmt)?.some((m) => m.kind === ts.SyntaxKind.ExportKeyword);
+		const exported =
+			ts.canHaveModifiers(stmt) &&
+			ts.getModifiers(stmt)?.some((m) => m.kind === ts.SyntaxKind.ExportKeyword);
 		if (!exported) continue;
 		if (ts.isFunctionDeclaration(stmt) && stmt.name) {
 			const name = stmt.name.text;
@@ -56,13 +64,19 @@ export function unguardedHandlers(source: string, fileName = 'x.ts'): string[] {
 				const name = decl.name.text;
 				if (HTTP_METHODS.includes(name) || name === 'load') check(name, decl.initializer);
 				if (name === 'actions' && decl.initializer) {
-					const init = ts.isSatisfiesExpression(decl.initializer) || ts.isAsExpression(decl.initializer) ? decl.initializer.expression : decl.initializer;
+					const init =
+						ts.isSatisfiesExpression(decl.initializer) || ts.isAsExpression(decl.initializer)
+							? decl.initializer.expression
+							: decl.initializer;
 					if (!ts.isObjectLiteralExpression(init)) {
 						missing.push('actions (not an object literal the check can read)');
 						continue;
 					}
 					for (const prop of init.properties) {
-						const propName = prop.name && (ts.isIdentifier(prop.name) || ts.isStringLiteral(prop.name)) ? prop.name.text : '?';
+						const propName =
+							prop.name && (ts.isIdentifier(prop.name) || ts.isStringLiteral(prop.name))
+								? prop.name.text
+								: '?';
 						if (ts.isPropertyAssignment(prop)) check(`actions.${propName}`, prop.initializer);
 						else if (ts.isMethodDeclaration(prop)) check(`actions.${propName}`, prop.body);
 						else missing.push(`actions.${propName} (shorthand: write the handler inline)`);
@@ -96,7 +110,9 @@ describe('guard coverage', () => {
 			.readdirSync(path.join(ROUTES, '(app)'), { withFileTypes: true })
 			.filter((e) => e.isDirectory())
 			.map((e) => e.name);
-		const unknown = top.filter((name) => !(name in AREA_ROLES) && !SHARED_APP_FOLDERS.includes(name));
+		const unknown = top.filter(
+			(name) => !(name in AREA_ROLES) && !SHARED_APP_FOLDERS.includes(name)
+		);
 		expect(unknown).toEqual([]);
 	});
 

@@ -2,7 +2,13 @@
  * Preventive visits: the kinds a workshop offers, their usual length, and the wall-clock
  * arithmetic for opening hours. Pure: no I/O, no clock.
  */
-export const VISIT_KINDS = ['inspection', 'sensor_check', 'service_regen', 'off_vehicle_cleaning', 'replacement'] as const;
+export const VISIT_KINDS = [
+	'inspection',
+	'sensor_check',
+	'service_regen',
+	'off_vehicle_cleaning',
+	'replacement'
+] as const;
 export type VisitKind = (typeof VISIT_KINDS)[number];
 
 export const VISIT_KIND_LABEL: Record<VisitKind, string> = {
@@ -31,4 +37,12 @@ export function minutesOfDay(hhmm: string): number {
 	return h * 60 + m;
 }
 
-export const WEEKDAY_NAMES = ['Mondays', 'Tuesdays', 'Wednesdays', 'Thursdays', 'Fridays', 'Saturdays', 'Sundays'];
+export const WEEKDAY_NAMES = [
+	'Mondays',
+	'Tuesdays',
+	'Wednesdays',
+	'Thursdays',
+	'Fridays',
+	'Saturdays',
+	'Sundays'
+];

@@ -33,5 +33,12 @@ export const FUELS = ['en590_diesel', 'biodiesel_blend', 'paraffinic_en15940'] a
 export type Fuel = (typeof FUELS)[number];
 
 export const OUTBOX_STATES = ['pending', 'sent', 'failed'] as const;
-export const BOOKING_STATES = ['requested', 'confirmed', 'proposed', 'declined', 'cancelled', 'done'] as const;
+export const BOOKING_STATES = [
+	'requested',
+	'confirmed',
+	'proposed',
+	'declined',
+	'cancelled',
+	'done'
+] as const;
 export type BookingState = (typeof BOOKING_STATES)[number];

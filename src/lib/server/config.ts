@@ -31,12 +31,24 @@ const envSchema = z.object({
 	/** Where uploaded files (CSV imports, captures) are kept: the local storage folder. */
 	STORAGE_DIR: z.string().min(1).default('data/uploads'),
 	/** Largest CSV import file, bytes (default 20 MB), and most data rows in one import. */
-	IMPORT_MAX_BYTES: z.coerce.number().int().min(1024).default(20 * 1024 * 1024),
+	IMPORT_MAX_BYTES: z.coerce
+		.number()
+		.int()
+		.min(1024)
+		.default(20 * 1024 * 1024),
 	IMPORT_MAX_ROWS: z.coerce.number().int().min(1).default(200_000),
 	/** Largest voltage capture, bytes (default 256 MB, about 12 million samples). */
-	CAPTURE_MAX_BYTES: z.coerce.number().int().min(1024).default(256 * 1024 * 1024),
+	CAPTURE_MAX_BYTES: z.coerce
+		.number()
+		.int()
+		.min(1024)
+		.default(256 * 1024 * 1024),
 	/** Largest JSON body the API reads, bytes (default 1 MB). */
-	API_MAX_BODY_BYTES: z.coerce.number().int().min(1024).default(1024 * 1024),
+	API_MAX_BODY_BYTES: z.coerce
+		.number()
+		.int()
+		.min(1024)
+		.default(1024 * 1024),
 	/** Per-token rate limit: sustained requests per minute and the burst allowed on top. */
 	API_RATE_PER_MINUTE: z.coerce.number().min(1).default(120),
 	API_RATE_BURST: z.coerce.number().int().min(1).default(60),

@@ -18,10 +18,16 @@ export const newContractSchema = z
 		startsOn: day('the first day'),
 		endsOn: z.preprocess((v) => (v === '' ? undefined : v), day('the last day').optional())
 	})
-	.refine((c) => !c.endsOn || c.endsOn >= c.startsOn, { path: ['endsOn'], message: 'The last day cannot be before the first' });
+	.refine((c) => !c.endsOn || c.endsOn >= c.startsOn, {
+		path: ['endsOn'],
+		message: 'The last day cannot be before the first'
+	});
 export type NewContractInput = z.infer<typeof newContractSchema>;
 
-export const endContractSchema = z.object({ contractId: z.coerce.number().int().positive(), endsOn: day('the last day') });
+export const endContractSchema = z.object({
+	contractId: z.coerce.number().int().positive(),
+	endsOn: day('the last day')
+});
 export type EndContractInput = z.infer<typeof endContractSchema>;
 
 export const changePersonSchema = z.object({

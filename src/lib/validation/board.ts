@@ -8,7 +8,10 @@ export const boardQuerySchema = z.object({
 	page: z.coerce.number().int().min(1).max(100_000).catch(1),
 	pageSize: z.coerce.number().int().min(5).max(100).catch(25),
 	q: z.string().trim().max(40).optional().catch(undefined),
-	status: z.enum([...VAN_STATUSES, 'not_forecast']).optional().catch(undefined),
+	status: z
+		.enum([...VAN_STATUSES, 'not_forecast'])
+		.optional()
+		.catch(undefined),
 	depot: z.coerce.number().int().positive().optional().catch(undefined),
 	sort: z.enum(BOARD_SORTS).catch('urgency'),
 	dir: z.enum(['asc', 'desc']).catch('asc')

@@ -3,7 +3,8 @@ import { z } from 'zod';
 /** A trimmed form string; empty becomes undefined so optional fields really are optional. */
 export const optionalText = (max: number, label: string) =>
 	z.preprocess(
-		(v) => (typeof v === 'string' && v.trim() === '' ? undefined : typeof v === 'string' ? v.trim() : v),
+		(v) =>
+			typeof v === 'string' && v.trim() === '' ? undefined : typeof v === 'string' ? v.trim() : v,
 		z.string().max(max, `${label} must be at most ${max} characters`).optional()
 	);
 
@@ -19,11 +20,19 @@ export const requiredText = (max: number, label: string) =>
 /** A number typed into a form: accepts a decimal comma, rejects words. */
 export const formNumber = (label: string, min: number, max: number, unit = '') =>
 	z.preprocess(
-		(v) => (typeof v === 'string' ? (v.trim() === '' ? undefined : Number(v.trim().replace(',', '.'))) : v),
+		(v) =>
+			typeof v === 'string'
+				? v.trim() === ''
+					? undefined
+					: Number(v.trim().replace(',', '.'))
+				: v,
 		z
 			.number({ error: `${label} must be a number` })
 			.refine((n) => Number.isFinite(n), `${label} must be a number`)
-			.refine((n) => n >= min && n <= max, `${label} must be between ${min} and ${max}${unit ? ' ' + unit : ''}`)
+			.refine(
+				(n) => n >= min && n <= max,
+				`${label} must be between ${min} and ${max}${unit ? ' ' + unit : ''}`
+			)
 	);
 
 export const optionalFormNumber = (label: string, min: number, max: number, unit = '') =>

@@ -38,7 +38,19 @@ export const IMPORT_FIELDS: Record<ImportKind, ImportField[]> = {
 			key: 'registration',
 			label: 'Van registration',
 			required: true,
-			hints: ['registration', 'reg', 'regno', 'van', 'vehicle', 'plate', 'vrm', 'numberplate', 'kennzeichen', 'immatriculation', 'matricula'],
+			hints: [
+				'registration',
+				'reg',
+				'regno',
+				'van',
+				'vehicle',
+				'plate',
+				'vrm',
+				'numberplate',
+				'kennzeichen',
+				'immatriculation',
+				'matricula'
+			],
 			help: 'e.g. LKD 401'
 		},
 		{

@@ -4,10 +4,15 @@ import { formNumber, optionalFormNumber, optionalText, requiredText } from './he
 
 export const vehicleDetailsSchema = z.object({
 	registration: requiredText(16, 'Registration').pipe(
-		z.string().regex(/^[A-Z0-9 -]+$/i, 'Registration may hold only letters, digits, spaces and dashes')
+		z
+			.string()
+			.regex(/^[A-Z0-9 -]+$/i, 'Registration may hold only letters, digits, spaces and dashes')
 	),
 	vin: optionalText(17, 'VIN').pipe(
-		z.string().regex(/^[A-HJ-NPR-Z0-9]{17}$/i, 'A VIN has 17 letters and digits (no I, O or Q)').optional()
+		z
+			.string()
+			.regex(/^[A-HJ-NPR-Z0-9]{17}$/i, 'A VIN has 17 letters and digits (no I, O or Q)')
+			.optional()
 	),
 	makeModel: optionalText(120, 'Make and model'),
 	engineDisplacementCc: optionalFormNumber('Engine size', 500, 10000, 'cc'),
@@ -21,7 +26,9 @@ export type VehicleDetailsInput = z.infer<typeof vehicleDetailsSchema>;
 export const newReadingSchema = z.object({
 	takenAt: z.preprocess(
 		(v) => (typeof v === 'string' && v.trim() !== '' ? new Date(v) : undefined),
-		z.date({ error: 'Enter the date and time of the reading' }).refine((d) => !Number.isNaN(d.getTime()), 'Enter a valid date and time')
+		z
+			.date({ error: 'Enter the date and time of the reading' })
+			.refine((d) => !Number.isNaN(d.getTime()), 'Enter a valid date and time')
 	),
 	deltaP: formNumber('Pressure', 0, 100000),
 	unit: z.enum(PRESSURE_UNITS, { error: 'Choose a unit' }),
@@ -42,7 +49,9 @@ export const unitPreferenceSchema = z.object({
 		z.array(z.enum(NOTIFIABLE_STATUSES, { error: 'Choose statuses from the list' }))
 	),
 	adviceEmails: z.preprocess((v) => v === 'on' || v === 'true', z.boolean()),
-	crossingWindowDays: formNumber('Crossing window', 1, 365, 'days').pipe(z.number().int('Crossing window must be a whole number of days'))
+	crossingWindowDays: formNumber('Crossing window', 1, 365, 'days').pipe(
+		z.number().int('Crossing window must be a whole number of days')
+	)
 });
 export type UnitPreferenceInput = z.infer<typeof unitPreferenceSchema>;
 

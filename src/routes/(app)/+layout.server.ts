@@ -7,6 +7,13 @@ export const load: LayoutServerLoad = () => {
 	// Only what the shell shows: no hashes, no ids beyond the person's own.
 	return {
 		devMailbox: user.role === 'admin' && devMailboxDir() !== null,
-		user: { name: user.name, email: user.email, role: user.role, unitPreference: user.unitPreference, locale: user.locale, timeZone: user.timeZone }
+		user: {
+			name: user.name,
+			email: user.email,
+			role: user.role,
+			unitPreference: user.unitPreference,
+			locale: user.locale,
+			timeZone: user.timeZone
+		}
 	};
 };

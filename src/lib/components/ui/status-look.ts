@@ -14,6 +14,7 @@ const LOOK: Record<VanStatus, { shape: Shape; classes: string }> = {
 	insufficient_data: { shape: 'dot', classes: 'bg-brand-soft text-ink-soft' }
 };
 
-export const STATUS_LOOK: Record<VanStatus, { label: string; shape: Shape; classes: string }> = Object.fromEntries(
-	(Object.keys(LOOK) as VanStatus[]).map((s) => [s, { label: STATUS_LABELS[s], ...LOOK[s] }])
-) as Record<VanStatus, { label: string; shape: Shape; classes: string }>;
+export const STATUS_LOOK: Record<VanStatus, { label: string; shape: Shape; classes: string }> =
+	Object.fromEntries(
+		(Object.keys(LOOK) as VanStatus[]).map((s) => [s, { label: STATUS_LABELS[s], ...LOOK[s] }])
+	) as Record<VanStatus, { label: string; shape: Shape; classes: string }>;

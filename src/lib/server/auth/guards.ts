@@ -80,6 +80,7 @@ export async function requireApiUser(...roles: Role[]): Promise<ApiUser> {
 	} else {
 		throw new UnauthorizedError('Sign in or send an API token ("Authorization: Bearer <token>").');
 	}
-	if (roles.length > 0 && !roles.includes(user.role)) throw new ForbiddenError('Your role does not give access to this.');
+	if (roles.length > 0 && !roles.includes(user.role))
+		throw new ForbiddenError('Your role does not give access to this.');
 	return user;
 }

@@ -22,17 +22,22 @@ function newestMtime(target: string): number {
 	const stat = fs.statSync(target);
 	if (!stat.isDirectory()) return stat.mtimeMs;
 	let newest = stat.mtimeMs;
-	for (const entry of fs.readdirSync(target)) newest = Math.max(newest, newestMtime(path.join(target, entry)));
+	for (const entry of fs.readdirSync(target))
+		newest = Math.max(newest, newestMtime(path.join(target, entry)));
 	return newest;
 }
 
 function buildIfNeeded(): void {
 	const built = fs.existsSync(buildEntry) ? fs.statSync(buildEntry).mtimeMs : 0;
 	const sources = Math.max(
-		...['src', 'static', 'svelte.config.js', 'vite.config.ts', 'package.json'].map((p) => newestMtime(path.join(root, p)))
+		...['src', 'static', 'svelte.config.js', 'vite.config.ts', 'package.json'].map((p) =>
+			newestMtime(path.join(root, p))
+		)
 	);
 	if (built >= sources) return;
-	console.log(built ? 'Sources changed since the last build; rebuilding…' : 'Building Sootcast (first start)…');
+	console.log(
+		built ? 'Sources changed since the last build; rebuilding…' : 'Building Sootcast (first start)…'
+	);
 	const result = spawnSync('npx', ['vite', 'build'], { stdio: 'inherit', cwd: root });
 	if (result.status !== 0) {
 		console.error('The build failed; see the messages above.');
@@ -45,7 +50,10 @@ await migrate();
 let sink: MailSink | null = null;
 let smtpUrl = config.SMTP_URL;
 if (!smtpUrl) {
-	sink = await startMailSink({ port: config.MAIL_SINK_PORT, dir: path.resolve(config.MAIL_SINK_DIR) });
+	sink = await startMailSink({
+		port: config.MAIL_SINK_PORT,
+		dir: path.resolve(config.MAIL_SINK_DIR)
+	});
 	smtpUrl = `smtp://127.0.0.1:${sink.port}`;
 	console.log(`Local mail sink listening on ${smtpUrl} (messages kept in ${sink.dir}).`);
 }
@@ -55,7 +63,9 @@ configureMailTransport(smtpUrl);
 if (config.SEED_DEMO) {
 	const summary = await seedDemo();
 	if (summary.seeded) {
-		console.log(`Loaded the demo fleet: ${summary.vans} vans, ${summary.readings} readings, ${summary.trips} trips.`);
+		console.log(
+			`Loaded the demo fleet: ${summary.vans} vans, ${summary.readings} readings, ${summary.trips} trips.`
+		);
 		// Forecast straight away so the demo does not wait for the first night.
 		await runJob(JOBS.find((j) => j.name === 'forecast')!);
 	}

@@ -4,8 +4,23 @@ import { createMigrator } from './migrator';
 import * as models from './models';
 
 const {
-	ApiToken, Booking, Contract, Depot, Forecast, ImportBatch, Organisation, Reading,
-	SensorTest, SensorType, Session, Trip, Upload, User, Vehicle, VehicleEvent, VisitReport
+	ApiToken,
+	Booking,
+	Contract,
+	Depot,
+	Forecast,
+	ImportBatch,
+	Organisation,
+	Reading,
+	SensorTest,
+	SensorType,
+	Session,
+	Trip,
+	Upload,
+	User,
+	Vehicle,
+	VehicleEvent,
+	VisitReport
 } = models;
 
 function associate(): void {

@@ -48,7 +48,9 @@ export type DatabaseKind = 'sqlite' | 'postgres';
 export function databaseKind(url: string): DatabaseKind {
 	if (url.startsWith('sqlite:')) return 'sqlite';
 	if (url.startsWith('postgres://') || url.startsWith('postgresql://')) return 'postgres';
-	throw new Error(`DATABASE_URL must start with sqlite: or postgres:// (got "${url.split(':')[0]}:")`);
+	throw new Error(
+		`DATABASE_URL must start with sqlite: or postgres:// (got "${url.split(':')[0]}:")`
+	);
 }
 
 /** `sqlite:data/x.db` → absolute path; `sqlite::memory:` stays in memory. */

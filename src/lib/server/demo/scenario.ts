@@ -18,8 +18,18 @@ export const DEMO_ACCOUNTS = {
 } as const;
 
 export const DRIVER_NAMES = [
-	'Ida Brennock', 'Caspian Moyo', 'Wren Halloway', 'Bastian Oyelaran', 'Elodie Farquar', 'Nikolai Strand',
-	'Priya Castellan', 'Odhran Vell', 'Saoirse Quill', 'Matteo Ashgrove', 'Yusuf Tenterden', 'Linnea Boorman'
+	'Ida Brennock',
+	'Caspian Moyo',
+	'Wren Halloway',
+	'Bastian Oyelaran',
+	'Elodie Farquar',
+	'Nikolai Strand',
+	'Priya Castellan',
+	'Odhran Vell',
+	'Saoirse Quill',
+	'Matteo Ashgrove',
+	'Yusuf Tenterden',
+	'Linnea Boorman'
 ];
 
 /** Parcel rounds in town: many short hops, lots of idling. */
@@ -77,7 +87,12 @@ export const DEPOTS = [
 	{ name: 'Riverside depot', town: 'Tarnbridge' }
 ] as const;
 
-const MODELS = ['Compact panel van 1.5', 'Mid panel van 2.0', 'Large panel van 2.2', 'Crew van 2.0'];
+const MODELS = [
+	'Compact panel van 1.5',
+	'Mid panel van 2.0',
+	'Large panel van 2.2',
+	'Crew van 2.0'
+];
 
 /** The forty Larkspur vans and five Thistledown vans, each with its own duty cycle and story. */
 export function demoVans(): DemoVan[] {
@@ -94,19 +109,39 @@ export function demoVans(): DemoVan[] {
 			emissionClass: i % 5 === 0 ? 'Euro 5' : 'Euro 6d',
 			fuel: i % 9 === 4 ? 'biodiesel_blend' : 'en590_diesel',
 			driver: i < DRIVER_NAMES.length ? i : null,
-			story: depot === 0 ? 'Town parcel round: short trips' : depot === 1 ? 'Mixed round' : 'Regional trades runs',
-			simulation: { profile, initialOdometerKm: 30_000 + i * 4_100, initialAshMbar: 6 + (i % 6) * 3 }
+			story:
+				depot === 0
+					? 'Town parcel round: short trips'
+					: depot === 1
+						? 'Mixed round'
+						: 'Regional trades runs',
+			simulation: {
+				profile,
+				initialOdometerKm: 30_000 + i * 4_100,
+				initialAshMbar: 6 + (i % 6) * 3
+			}
 		};
 		vans.push(van);
 	}
 	// The vans the demo is built around.
 	Object.assign(vans[0], {
 		story: 'Short-trip round whose regenerations keep being interrupted: heading for the line',
-		simulation: { ...vans[0].simulation, profile: { ...URBAN_PARCEL, shortTripShare: 0.92 }, initialAshMbar: 40, ashMbarPer1000Km: 1.2, regenFailsFromDay: 541 }
+		simulation: {
+			...vans[0].simulation,
+			profile: { ...URBAN_PARCEL, shortTripShare: 0.92 },
+			initialAshMbar: 40,
+			ashMbarPer1000Km: 1.2,
+			regenFailsFromDay: 541
+		}
 	});
 	Object.assign(vans[1], {
 		story: 'Engine making extra soot (suspected injector); already past the line',
-		simulation: { ...vans[1].simulation, sootMultiplier: 1.7, initialAshMbar: 70, regenFailsFromDay: 528 }
+		simulation: {
+			...vans[1].simulation,
+			sootMultiplier: 1.7,
+			initialAshMbar: 70,
+			regenFailsFromDay: 528
+		}
 	});
 	Object.assign(vans[2], {
 		story: 'Sensor pipe split: reads implausibly low under load',
@@ -114,7 +149,12 @@ export function demoVans(): DemoVan[] {
 	});
 	Object.assign(vans[3], {
 		story: 'Filter cleaned off the vehicle mid-history; full-ash oil raises the baseline again',
-		simulation: { ...vans[3].simulation, filterCleanedOnDay: 260, initialAshMbar: 55, ashMbarPer1000Km: 1.6 }
+		simulation: {
+			...vans[3].simulation,
+			filterCleanedOnDay: 260,
+			initialAshMbar: 55,
+			ashMbarPer1000Km: 1.6
+		}
 	});
 	Object.assign(vans[6], {
 		story: 'Active regenerations inhibited for the last weeks: climbing fast',
@@ -122,11 +162,21 @@ export function demoVans(): DemoVan[] {
 	});
 	Object.assign(vans[9], {
 		story: 'Heavy short-trip use and high ash: crossing within months',
-		simulation: { ...vans[9].simulation, profile: { ...URBAN_PARCEL, shortTripShare: 0.88, idleShare: 0.3 }, initialAshMbar: 55, ashMbarPer1000Km: 2.4 }
+		simulation: {
+			...vans[9].simulation,
+			profile: { ...URBAN_PARCEL, shortTripShare: 0.88, idleShare: 0.3 },
+			initialAshMbar: 55,
+			ashMbarPer1000Km: 2.4
+		}
 	});
 	Object.assign(vans[12], {
 		story: 'Service regeneration at the workshop after a run of short trips',
-		simulation: { ...vans[12].simulation, serviceRegenOnDays: [330, 470], initialAshMbar: 45, ashMbarPer1000Km: 1.6 }
+		simulation: {
+			...vans[12].simulation,
+			serviceRegenOnDays: [330, 470],
+			initialAshMbar: 45,
+			ashMbarPer1000Km: 1.6
+		}
 	});
 	Object.assign(vans[15], {
 		story: 'Filter replaced after a blockage a year ago',

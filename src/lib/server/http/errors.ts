@@ -30,7 +30,12 @@ export async function orHttpError<T>(work: () => Promise<T>): Promise<T> {
 }
 
 /** The API's one error shape: `{ error: { code, message, fields? } }`. */
-export function apiError(status: number, code: string, message: string, fields?: Record<string, string>) {
+export function apiError(
+	status: number,
+	code: string,
+	message: string,
+	fields?: Record<string, string>
+) {
 	return json({ error: { code, message, ...(fields ? { fields } : {}) } }, { status });
 }
 
@@ -49,7 +54,14 @@ export function apiErrorFrom(err: unknown) {
 	}
 	if (err instanceof ImportError) {
 		return json(
-			{ error: { code: 'import_invalid', message: err.message, problems: err.problems, totalProblems: err.totalProblems } },
+			{
+				error: {
+					code: 'import_invalid',
+					message: err.message,
+					problems: err.problems,
+					totalProblems: err.totalProblems
+				}
+			},
 			{ status: 400 }
 		);
 	}

@@ -15,13 +15,17 @@ export async function loadPasswordLink(token: string, purpose: Purpose) {
 		: { valid: false as const, message: DEAD_LINK_MESSAGE };
 }
 
-export async function setPasswordFromLink(event: RequestEvent<{ token: string }>, purpose: Purpose) {
+export async function setPasswordFromLink(
+	event: RequestEvent<{ token: string }>,
+	purpose: Purpose
+) {
 	const parsed = await parseForm(newPasswordSchema, event.request);
 	if (!parsed.ok) return parsed.failure;
 	try {
 		await setPasswordWithLink(event.params.token, purpose, parsed.data.password);
 	} catch (err) {
-		if (err instanceof ValidationError) return fail(400, { errors: {} as FieldErrors, message: err.message });
+		if (err instanceof ValidationError)
+			return fail(400, { errors: {} as FieldErrors, message: err.message });
 		throw err;
 	}
 	redirect(303, '/login?password=set');

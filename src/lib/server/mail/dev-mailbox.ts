@@ -21,14 +21,20 @@ const SAFE_ID = /^[\w.-]+\.eml$/;
 
 async function readEntry(dir: string, id: string): Promise<MailboxEntry> {
 	const parsed = await simpleParser(await fs.readFile(path.join(dir, id)));
-	const to = Array.isArray(parsed.to) ? parsed.to.map((a) => a.text).join(', ') : (parsed.to?.text ?? '');
+	const to = Array.isArray(parsed.to)
+		? parsed.to.map((a) => a.text).join(', ')
+		: (parsed.to?.text ?? '');
 	return {
 		id,
 		date: parsed.date?.toISOString() ?? null,
 		to,
 		subject: parsed.subject ?? '(no subject)',
 		text: parsed.text ?? '',
-		attachments: parsed.attachments.map((a) => ({ filename: a.filename ?? 'attachment', contentType: a.contentType, size: a.size }))
+		attachments: parsed.attachments.map((a) => ({
+			filename: a.filename ?? 'attachment',
+			contentType: a.contentType,
+			size: a.size
+		}))
 	};
 }
 
@@ -36,6 +42,10 @@ async function readEntry(dir: string, id: string): Promise<MailboxEntry> {
 export async function listDevMailbox(limit = 50): Promise<MailboxEntry[] | null> {
 	const dir = devMailboxDir();
 	if (!dir) return null;
-	const names = (await fs.readdir(dir).catch(() => [] as string[])).filter((n) => SAFE_ID.test(n)).sort().reverse().slice(0, limit);
+	const names = (await fs.readdir(dir).catch(() => [] as string[]))
+		.filter((n) => SAFE_ID.test(n))
+		.sort()
+		.reverse()
+		.slice(0, limit);
 	return Promise.all(names.map((n) => readEntry(dir, n)));
 }

@@ -20,12 +20,19 @@ export interface VisitInvitation {
 
 /** 19970714T173000Z — RFC 5545 §3.3.5. */
 export function icalUtc(d: Date): string {
-	return d.toISOString().replace(/[-:]/g, '').replace(/\.\d{3}/, '');
+	return d
+		.toISOString()
+		.replace(/[-:]/g, '')
+		.replace(/\.\d{3}/, '');
 }
 
 /** TEXT escaping — RFC 5545 §3.3.11: backslash, semicolon, comma, newline. */
 export function escapeText(value: string): string {
-	return value.replace(/\\/g, '\\\\').replace(/;/g, '\\;').replace(/,/g, '\\,').replace(/\r?\n/g, '\\n');
+	return value
+		.replace(/\\/g, '\\\\')
+		.replace(/;/g, '\\;')
+		.replace(/,/g, '\\,')
+		.replace(/\r?\n/g, '\\n');
 }
 
 /** Parameter values with unsafe characters are quoted — RFC 5545 §3.2 (param-value). */
@@ -71,7 +78,9 @@ export function buildInvitation(inv: VisitInvitation): string {
 		`LOCATION:${escapeText(inv.location)}`,
 		`DESCRIPTION:${escapeText(inv.description)}`,
 		`ORGANIZER;CN=${paramValue(inv.organizer.name)}:mailto:${inv.organizer.email}`,
-		...inv.attendees.map((a) => `ATTENDEE;CN=${paramValue(a.name)};ROLE=REQ-PARTICIPANT:mailto:${a.email}`),
+		...inv.attendees.map(
+			(a) => `ATTENDEE;CN=${paramValue(a.name)};ROLE=REQ-PARTICIPANT:mailto:${a.email}`
+		),
 		'END:VEVENT',
 		'END:VCALENDAR'
 	];

@@ -13,7 +13,11 @@ export interface MailSink {
 	close(): Promise<void>;
 }
 
-export async function startMailSink(options: { port: number; dir: string; host?: string }): Promise<MailSink> {
+export async function startMailSink(options: {
+	port: number;
+	dir: string;
+	host?: string;
+}): Promise<MailSink> {
 	await fs.mkdir(options.dir, { recursive: true });
 	const server = new SMTPServer({
 		authOptional: true,

@@ -9,7 +9,11 @@ export const LINK_LIFETIME_HOURS: Record<ActionPurpose, number> = { invite: 72, 
 const hashToken = (token: string) => createHash('sha256').update(token).digest('hex');
 
 /** A new single-use token for this user and purpose; older unused ones of the same purpose die. */
-export async function issueActionToken(userId: number, purpose: ActionPurpose, now = new Date()): Promise<string> {
+export async function issueActionToken(
+	userId: number,
+	purpose: ActionPurpose,
+	now = new Date()
+): Promise<string> {
 	const token = randomBytes(32).toString('base64url');
 	await ActionToken.update({ usedAt: now }, { where: { userId, purpose, usedAt: null } });
 	await ActionToken.create({
@@ -22,7 +26,8 @@ export async function issueActionToken(userId: number, purpose: ActionPurpose, n
 }
 
 /** The same message for unknown, used and expired links: nothing about the account leaks. */
-export const DEAD_LINK_MESSAGE = 'This link is not valid any more. Links work once and expire; ask for a new one.';
+export const DEAD_LINK_MESSAGE =
+	'This link is not valid any more. Links work once and expire; ask for a new one.';
 
 /** The user a still-valid token belongs to, without using it up (to show the form). */
 export async function peekActionToken(token: string, purpose: ActionPurpose, now = new Date()) {
@@ -38,7 +43,11 @@ export async function peekActionToken(token: string, purpose: ActionPurpose, now
  * Uses a token up and returns its user id. The conditional update makes it single-use even
  * when the same link is submitted twice at once.
  */
-export async function consumeActionToken(token: string, purpose: ActionPurpose, now = new Date()): Promise<number> {
+export async function consumeActionToken(
+	token: string,
+	purpose: ActionPurpose,
+	now = new Date()
+): Promise<number> {
 	const row = await ActionToken.findOne({ where: { tokenHash: hashToken(token), purpose } });
 	if (!row) throw new ValidationError(DEAD_LINK_MESSAGE);
 	const [used] = await ActionToken.update(

@@ -4,7 +4,9 @@ import type { UnitPreferenceInput } from '../../validation/vehicle';
 import { recordAudit } from './audit';
 
 export async function getOwnSettings(user: SessionUser) {
-	const row = await User.findByPk(user.id, { attributes: ['notifyDigest', 'notifyStatuses', 'crossingWindowDays', 'adviceOptOut'] });
+	const row = await User.findByPk(user.id, {
+		attributes: ['notifyDigest', 'notifyStatuses', 'crossingWindowDays', 'adviceOptOut']
+	});
 	return {
 		notifyDigest: row?.notifyDigest ?? true,
 		notifyStatuses: (row?.notifyStatuses ?? []) as string[],
@@ -13,7 +15,10 @@ export async function getOwnSettings(user: SessionUser) {
 	};
 }
 
-export async function updateOwnSettings(user: SessionUser, input: UnitPreferenceInput): Promise<void> {
+export async function updateOwnSettings(
+	user: SessionUser,
+	input: UnitPreferenceInput
+): Promise<void> {
 	await User.update(
 		{
 			name: input.name,

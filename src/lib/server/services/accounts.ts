@@ -21,7 +21,10 @@ const ROLE_WORDS: Record<Role, string> = {
 /** Which roles an inviter may give, and into which organisation. */
 function inviteTarget(actor: SessionUser, input: InviteInput): { organisationId: number } {
 	if (actor.role === 'admin') {
-		if (!input.organisationId) throw new ValidationError('Choose an organisation', { organisationId: 'Choose an organisation' });
+		if (!input.organisationId)
+			throw new ValidationError('Choose an organisation', {
+				organisationId: 'Choose an organisation'
+			});
 		return { organisationId: input.organisationId };
 	}
 	if (actor.role === 'fleet_manager') {
@@ -55,7 +58,13 @@ export async function invitePerson(actor: SessionUser, input: InviteInput, now =
 				email: 'Someone with that e-mail already has an account'
 			});
 		}
-		const user = await User.create({ organisationId, email: input.email, name: input.name, role: input.role, notifyStatuses: ['over_line', 'crossing_soon'] });
+		const user = await User.create({
+			organisationId,
+			email: input.email,
+			name: input.name,
+			role: input.role,
+			notifyStatuses: ['over_line', 'crossing_soon']
+		});
 		const token = await issueActionToken(user.id, 'invite', now);
 		const link = `${publicUrl()}/welcome/${token}`;
 		const title = `You are invited to Sootcast`;
@@ -72,7 +81,11 @@ export async function invitePerson(actor: SessionUser, input: InviteInput, now =
 			},
 			now
 		);
-		await recordAudit(actor, 'user.invite', 'user', user.id, { email: user.email, role: user.role, organisationId });
+		await recordAudit(actor, 'user.invite', 'user', user.id, {
+			email: user.email,
+			role: user.role,
+			organisationId
+		});
 		return { id: user.id, email: user.email };
 	});
 	kickOutbox();
@@ -80,7 +93,12 @@ export async function invitePerson(actor: SessionUser, input: InviteInput, now =
 }
 
 /** Sets the password from an invitation or reset link, ends old sessions, and returns the user id. */
-export async function setPasswordWithLink(token: string, purpose: 'invite' | 'reset', password: string, now = new Date()) {
+export async function setPasswordWithLink(
+	token: string,
+	purpose: 'invite' | 'reset',
+	password: string,
+	now = new Date()
+) {
 	const passwordHash = await hashPassword(password);
 	const userId = await getDb().transaction(async () => {
 		const id = await consumeActionToken(token, purpose, now);
@@ -88,7 +106,14 @@ export async function setPasswordWithLink(token: string, purpose: 'invite' | 're
 		return id;
 	});
 	await lucia.invalidateUserSessions(userId);
-	await recordAudit(null, purpose === 'invite' ? 'user.accept_invite' : 'user.reset_password', 'user', userId, null, now);
+	await recordAudit(
+		null,
+		purpose === 'invite' ? 'user.accept_invite' : 'user.reset_password',
+		'user',
+		userId,
+		null,
+		now
+	);
 	return userId;
 }
 

@@ -18,10 +18,37 @@ export async function exportBoardCsv(user: SessionUser, query: BoardQueryInput):
 	const unit = user.unitPreference as PressureUnit;
 	const { items } = await listBoard(user, { ...query, page: 1, pageSize: EXPORT_LIMIT });
 	const day = (iso: string | null) => (iso ? iso.slice(0, 10) : null);
-	const p = (mbar: number | null) => (mbar === null ? null : Number(fromMbar(mbar, unit).toFixed(unit === 'mbar' || unit === 'hPa' ? 0 : 3)));
-	const header = ['registration', 'fleet', 'depot', 'status', `latest_dp_${unit}`, `concern_line_${unit}`, `growth_${unit}_per_week`, 'crossing_earliest', 'crossing_expected', 'crossing_latest', 'confidence'];
+	const p = (mbar: number | null) =>
+		mbar === null
+			? null
+			: Number(fromMbar(mbar, unit).toFixed(unit === 'mbar' || unit === 'hPa' ? 0 : 3));
+	const header = [
+		'registration',
+		'fleet',
+		'depot',
+		'status',
+		`latest_dp_${unit}`,
+		`concern_line_${unit}`,
+		`growth_${unit}_per_week`,
+		'crossing_earliest',
+		'crossing_expected',
+		'crossing_latest',
+		'confidence'
+	];
 	const lines = items.map((v) =>
-		[v.registration, v.fleet, v.depot, v.status ? STATUS_LABELS[v.status] : 'Not forecast yet', p(v.latestMbar), p(v.concernLineMbar), p(v.growthMbarPerWeek), day(v.crossingEarliest), day(v.crossingExpected), day(v.crossingLatest), v.confidence]
+		[
+			v.registration,
+			v.fleet,
+			v.depot,
+			v.status ? STATUS_LABELS[v.status] : 'Not forecast yet',
+			p(v.latestMbar),
+			p(v.concernLineMbar),
+			p(v.growthMbarPerWeek),
+			day(v.crossingEarliest),
+			day(v.crossingExpected),
+			day(v.crossingLatest),
+			v.confidence
+		]
 			.map(csvField)
 			.join(',')
 	);

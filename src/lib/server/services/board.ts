@@ -24,7 +24,10 @@ export interface BoardRow {
 const NOT_FORECAST_URGENCY = 9_999_999;
 const iso = (d: Date | string | null | undefined) => (d ? new Date(d).toISOString() : null);
 
-async function scopedWhere(user: SessionUser, query: Pick<BoardQueryInput, 'q' | 'depot'>): Promise<WhereOptions<Vehicle>> {
+async function scopedWhere(
+	user: SessionUser,
+	query: Pick<BoardQueryInput, 'q' | 'depot'>
+): Promise<WhereOptions<Vehicle>> {
 	const parts: WhereOptions<Vehicle>[] = [await vehicleScope(user), { archivedAt: null }];
 	if (query.q) parts.push({ registration: { [Op.like]: `%${query.q.toUpperCase()}%` } });
 	if (query.depot) parts.push({ depotId: query.depot });
@@ -45,9 +48,15 @@ function orderFor(query: BoardQueryInput): Order {
 		case 'registration':
 			return [['registration', dir]];
 		case 'latest':
-			return [[fn('COALESCE', col('current.latest_mbar'), -1), dir], ['registration', 'ASC']];
+			return [
+				[fn('COALESCE', col('current.latest_mbar'), -1), dir],
+				['registration', 'ASC']
+			];
 		default:
-			return [[urgency, dir], ['registration', 'ASC']];
+			return [
+				[urgency, dir],
+				['registration', 'ASC']
+			];
 	}
 }
 
@@ -71,7 +80,11 @@ export async function listBoard(user: SessionUser, query: BoardQueryInput) {
 		distinct: true
 	});
 	const items: BoardRow[] = rows.map((v) => {
-		const p = v.get({ plain: true }) as Vehicle & { current?: VehicleStatus | null; depot?: { name: string } | null; fleet?: { name: string } | null };
+		const p = v.get({ plain: true }) as Vehicle & {
+			current?: VehicleStatus | null;
+			depot?: { name: string } | null;
+			fleet?: { name: string } | null;
+		};
 		return {
 			id: p.id,
 			registration: p.registration,
@@ -101,16 +114,26 @@ function crossingOrder(query: BoardQueryInput): Order {
 }
 
 /** Counts per status (filters other than status applied), and the depots to filter by. */
-export async function boardSummary(user: SessionUser, query: Pick<BoardQueryInput, 'q' | 'depot'>, now: Date, weeks = 12) {
+export async function boardSummary(
+	user: SessionUser,
+	query: Pick<BoardQueryInput, 'q' | 'depot'>,
+	now: Date,
+	weeks = 12
+) {
 	const where = await scopedWhere(user, query);
 	const grouped = (await Vehicle.findAll({
-		attributes: [[col('current.status'), 'status'], [fn('COUNT', 1), 'count']],
+		attributes: [
+			[col('current.status'), 'status'],
+			[fn('COUNT', 1), 'count']
+		],
 		where,
 		include: [{ model: VehicleStatus, as: 'current', attributes: [], required: false }],
 		group: [col('current.status')],
 		raw: true
 	})) as unknown as { status: string | null; count: number | string }[];
-	const counts: Record<string, number> = Object.fromEntries([...VAN_STATUSES, 'not_forecast'].map((s) => [s, 0]));
+	const counts: Record<string, number> = Object.fromEntries(
+		[...VAN_STATUSES, 'not_forecast'].map((s) => [s, 0])
+	);
 	for (const g of grouped) counts[g.status ?? 'not_forecast'] += Number(g.count);
 
 	const until = new Date(now.getTime() + weeks * 7 * 86_400_000);
@@ -120,7 +143,10 @@ export async function boardSummary(user: SessionUser, query: Pick<BoardQueryInpu
 		include: [{ model: VehicleStatus, as: 'current', attributes: [], required: true }],
 		raw: true
 	})) as unknown as { expected: string | Date }[];
-	const perWeek = Array.from({ length: weeks }, (_, i) => ({ weekStart: new Date(now.getTime() + i * 7 * 86_400_000).toISOString(), count: 0 }));
+	const perWeek = Array.from({ length: weeks }, (_, i) => ({
+		weekStart: new Date(now.getTime() + i * 7 * 86_400_000).toISOString(),
+		count: 0
+	}));
 	for (const u of upcoming) {
 		const i = Math.floor((new Date(u.expected).getTime() - now.getTime()) / (7 * 86_400_000));
 		if (i >= 0 && i < weeks) perWeek[i].count++;
@@ -131,8 +157,19 @@ export async function boardSummary(user: SessionUser, query: Pick<BoardQueryInpu
 /** Depots of the fleets this person sees, for the depot filter. */
 export async function visibleDepots(user: SessionUser) {
 	const scope = await vehicleScope(user);
-	const fleetIds = (await Vehicle.findAll({ attributes: ['organisationId'], where: scope, group: ['organisationId'], raw: true })).map((v) => v.organisationId);
+	const fleetIds = (
+		await Vehicle.findAll({
+			attributes: ['organisationId'],
+			where: scope,
+			group: ['organisationId'],
+			raw: true
+		})
+	).map((v) => v.organisationId);
 	if (!fleetIds.length) return [];
-	const depots = await Depot.findAll({ where: { organisationId: { [Op.in]: fleetIds } }, order: [['name', 'ASC']], raw: true });
+	const depots = await Depot.findAll({
+		where: { organisationId: { [Op.in]: fleetIds } },
+		order: [['name', 'ASC']],
+		raw: true
+	});
 	return depots.map((d) => ({ id: d.id, name: d.name }));
 }

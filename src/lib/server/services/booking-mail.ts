@@ -89,7 +89,13 @@ export async function sendBookingMail(bookingId: number, now: Date): Promise<voi
 						`<p style="font-size:14px">${escapeHtml(CAUTIONS)}</p>`
 				),
 				dedupeKey: `booking:${b.uid}:${b.sequence}:${person.id}`,
-				attachments: [{ filename: 'visit.ics', content: ics, contentType: `text/calendar; charset=utf-8; method=${cancelled ? 'CANCEL' : 'REQUEST'}` }]
+				attachments: [
+					{
+						filename: 'visit.ics',
+						content: ics,
+						contentType: `text/calendar; charset=utf-8; method=${cancelled ? 'CANCEL' : 'REQUEST'}`
+					}
+				]
 			},
 			now
 		);

@@ -2,11 +2,29 @@ import { randomUUID } from 'node:crypto';
 import { Op, UniqueConstraintError } from 'sequelize';
 import { TZDate } from '@date-fns/tz';
 import {
-	getDb, Booking, BookingChange, BookingSlot, Contract, Organisation, User, Vehicle, VehicleStatus,
-	WorkshopCapacity, WorkshopClosedDay, WorkshopVisitKind
+	getDb,
+	Booking,
+	BookingChange,
+	BookingSlot,
+	Contract,
+	Organisation,
+	User,
+	Vehicle,
+	VehicleStatus,
+	WorkshopCapacity,
+	WorkshopClosedDay,
+	WorkshopVisitKind
 } from '../db';
 import type { SessionUser } from '../auth/lucia';
-import { DEFAULT_VISIT_MINUTES, OPEN_BOOKING_STATES, VISIT_KINDS, VISIT_KIND_LABEL, WEEKDAY_NAMES, minutesOfDay, type VisitKind } from '../../domain/visits';
+import {
+	DEFAULT_VISIT_MINUTES,
+	OPEN_BOOKING_STATES,
+	VISIT_KINDS,
+	VISIT_KIND_LABEL,
+	WEEKDAY_NAMES,
+	minutesOfDay,
+	type VisitKind
+} from '../../domain/visits';
 import type { BookingState } from '../../domain/vocabulary';
 import { ValidationError, NotFoundError, ForbiddenError } from './errors';
 import { contractedFleetIds, isoDay } from './scope';
@@ -19,7 +37,13 @@ const DAY_MS = 86_400_000;
  * Used when a workshop has not set its own capacity (the demo seeder stores these for the demo
  * workshops too): two bays, 08:00–17:00 local time, closed at weekends.
  */
-export const DEFAULT_CAPACITY = { baysPerDay: 2, opensAt: '08:00', closesAt: '17:00', closedWeekdays: [6, 7], timeZone: 'Europe/London' };
+export const DEFAULT_CAPACITY = {
+	baysPerDay: 2,
+	opensAt: '08:00',
+	closesAt: '17:00',
+	closedWeekdays: [6, 7],
+	timeZone: 'Europe/London'
+};
 
 export interface Capacity {
 	workshopId: number;
@@ -44,7 +68,9 @@ export async function getCapacity(workshopId: number): Promise<Capacity> {
 	if (!org || org.kind !== 'workshop') throw new NotFoundError('That workshop');
 	const base = row ? row.get({ plain: true }) : { ...DEFAULT_CAPACITY, workshopId };
 	const offered = kinds.length
-		? kinds.filter((k) => (VISIT_KINDS as readonly string[]).includes(k.kind)).map((k) => ({ kind: k.kind as VisitKind, durationMinutes: k.durationMinutes }))
+		? kinds
+				.filter((k) => (VISIT_KINDS as readonly string[]).includes(k.kind))
+				.map((k) => ({ kind: k.kind as VisitKind, durationMinutes: k.durationMinutes }))
 		: VISIT_KINDS.map((kind) => ({ kind, durationMinutes: DEFAULT_VISIT_MINUTES[kind] }));
 	return {
 		workshopId,
@@ -63,7 +89,10 @@ export async function getCapacity(workshopId: number): Promise<Capacity> {
 /** A wall-clock 'YYYY-MM-DDTHH:MM' in `timeZone` as an instant. */
 export function fromLocal(local: string, timeZone: string): Date {
 	const m = /^(\d{4})-(\d{2})-(\d{2})T(\d{2}):(\d{2})/.exec(local);
-	if (!m) throw new ValidationError('Enter the date and time of the visit.', { startsAt: 'Enter the date and time of the visit.' });
+	if (!m)
+		throw new ValidationError('Enter the date and time of the visit.', {
+			startsAt: 'Enter the date and time of the visit.'
+		});
 	const [, y, mo, d, h, mi] = m.map(Number);
 	return new Date(new TZDate(y, mo - 1, d, h, mi, timeZone).getTime());
 }
@@ -85,17 +114,32 @@ const failStart = (message: string): never => {
  * Checks a visit time against the workshop's rules (not in the past, on an open day, within
  * opening hours) and returns its end. Capacity is checked separately, inside the transaction.
  */
-export function checkVisitTime(cap: Capacity, kind: VisitKind, startsAt: Date, now: Date): { endsAt: Date; day: string } {
+export function checkVisitTime(
+	cap: Capacity,
+	kind: VisitKind,
+	startsAt: Date,
+	now: Date
+): { endsAt: Date; day: string } {
 	const offered = cap.kinds.find((k) => k.kind === kind);
-	if (!offered) throw new ValidationError(`${cap.workshopName} does not offer this kind of visit.`, { visitKind: `${cap.workshopName} does not offer this kind of visit.` });
-	if (startsAt.getTime() <= now.getTime()) failStart('That time has already passed. Choose a time later than now.');
+	if (!offered)
+		throw new ValidationError(`${cap.workshopName} does not offer this kind of visit.`, {
+			visitKind: `${cap.workshopName} does not offer this kind of visit.`
+		});
+	if (startsAt.getTime() <= now.getTime())
+		failStart('That time has already passed. Choose a time later than now.');
 	const endsAt = new Date(startsAt.getTime() + offered.durationMinutes * 60_000);
 	const z = new TZDate(startsAt.getTime(), cap.timeZone);
 	const isoWeekday = z.getDay() === 0 ? 7 : z.getDay();
 	const day = localDay(startsAt, cap.timeZone);
-	if (cap.closedWeekdays.includes(isoWeekday)) failStart(`${cap.workshopName} is closed on ${WEEKDAY_NAMES[isoWeekday - 1]}. Choose another day.`);
+	if (cap.closedWeekdays.includes(isoWeekday))
+		failStart(
+			`${cap.workshopName} is closed on ${WEEKDAY_NAMES[isoWeekday - 1]}. Choose another day.`
+		);
 	const closed = cap.closedDays.find((c) => c.day === day);
-	if (closed) failStart(`${cap.workshopName} is closed on ${day}${closed.note ? ` (${closed.note})` : ''}. Choose another day.`);
+	if (closed)
+		failStart(
+			`${cap.workshopName} is closed on ${day}${closed.note ? ` (${closed.note})` : ''}. Choose another day.`
+		);
 	const startMin = z.getHours() * 60 + z.getMinutes();
 	const endMin = startMin + offered.durationMinutes;
 	if (startMin < minutesOfDay(cap.opensAt) || endMin > minutesOfDay(cap.closesAt)) {
@@ -112,12 +156,22 @@ export function checkVisitTime(cap: Capacity, kind: VisitKind, startsAt: Date, n
  * (workshop, day, bay) index refuses a second holder of the same bay on any database.
  */
 async function holdBay(cap: Capacity, bookingId: number, day: string): Promise<void> {
-	const full = () => failStart(`All ${cap.baysPerDay} bays at ${cap.workshopName} are taken on ${day}. Choose another day.`);
+	const full = () =>
+		failStart(
+			`All ${cap.baysPerDay} bays at ${cap.workshopName} are taken on ${day}. Choose another day.`
+		);
 	await BookingSlot.destroy({ where: { bookingId } });
-	const taken = await BookingSlot.findAll({ where: { workshopId: cap.workshopId, day }, attributes: ['bay'] });
+	const taken = await BookingSlot.findAll({
+		where: { workshopId: cap.workshopId, day },
+		attributes: ['bay']
+	});
 	const used = new Set(taken.map((s) => s.bay));
 	let bay = 0;
-	for (let b = 1; b <= cap.baysPerDay; b++) if (!used.has(b)) { bay = b; break; }
+	for (let b = 1; b <= cap.baysPerDay; b++)
+		if (!used.has(b)) {
+			bay = b;
+			break;
+		}
 	if (!bay) full();
 	try {
 		await BookingSlot.create({ bookingId, workshopId: cap.workshopId, day, bay });
@@ -150,25 +204,51 @@ export interface BookingView {
 	timeZone: string;
 	/** The start as wall-clock time in the workshop's zone, for the reschedule form. */
 	startsAtLocal: string;
-	changes: { at: Date; who: string; action: string; toState: string; startsAt: Date | null; reason: string | null }[];
+	changes: {
+		at: Date;
+		who: string;
+		action: string;
+		toState: string;
+		startsAt: Date | null;
+		reason: string | null;
+	}[];
 }
 
 /** Bookings this person may see: a fleet manager's own fleet's, a workshop's own. */
-function bookingScope(user: SessionUser): { booking: Record<string, unknown>; vehicle: Record<string, unknown> } {
-	if (user.role === 'workshop') return { booking: { workshopId: user.organisationId }, vehicle: {} };
-	if (user.role === 'fleet_manager') return { booking: {}, vehicle: { organisationId: user.organisationId } };
+function bookingScope(user: SessionUser): {
+	booking: Record<string, unknown>;
+	vehicle: Record<string, unknown>;
+} {
+	if (user.role === 'workshop')
+		return { booking: { workshopId: user.organisationId }, vehicle: {} };
+	if (user.role === 'fleet_manager')
+		return { booking: {}, vehicle: { organisationId: user.organisationId } };
 	return { booking: { id: { [Op.in]: [] as number[] } }, vehicle: {} };
 }
 
-export async function listBookings(user: SessionUser, filter: { vehicleId?: number; from?: Date; to?: Date } = {}): Promise<BookingView[]> {
+export async function listBookings(
+	user: SessionUser,
+	filter: { vehicleId?: number; from?: Date; to?: Date } = {}
+): Promise<BookingView[]> {
 	const scope = bookingScope(user);
 	const where: Record<string, unknown> = { ...scope.booking };
 	if (filter.vehicleId) where.vehicleId = filter.vehicleId;
 	if (filter.from && filter.to) where.startsAt = { [Op.gte]: filter.from, [Op.lt]: filter.to };
 	const rows = await Booking.findAll({
 		where,
-		include: [{ model: Vehicle, as: 'vehicle', attributes: ['id', 'registration', 'organisationId'], where: scope.vehicle, required: true }],
-		order: [['startsAt', 'ASC'], ['id', 'ASC']],
+		include: [
+			{
+				model: Vehicle,
+				as: 'vehicle',
+				attributes: ['id', 'registration', 'organisationId'],
+				where: scope.vehicle,
+				required: true
+			}
+		],
+		order: [
+			['startsAt', 'ASC'],
+			['id', 'ASC']
+		],
 		limit: 500
 	});
 	return Promise.all(rows.map((b) => view(b)));
@@ -182,7 +262,15 @@ async function findBooking(user: SessionUser, bookingId: number): Promise<Bookin
 	const scope = bookingScope(user);
 	const b = await Booking.findOne({
 		where: { id: bookingId, ...scope.booking },
-		include: [{ model: Vehicle, as: 'vehicle', attributes: ['id', 'registration', 'organisationId'], where: scope.vehicle, required: true }]
+		include: [
+			{
+				model: Vehicle,
+				as: 'vehicle',
+				attributes: ['id', 'registration', 'organisationId'],
+				where: scope.vehicle,
+				required: true
+			}
+		]
 	});
 	if (!b) throw new NotFoundError('That visit');
 	return b;
@@ -195,7 +283,10 @@ async function view(b: Booking): Promise<BookingView> {
 		WorkshopCapacity.findByPk(b.workshopId, { attributes: ['timeZone'] }),
 		BookingChange.findAll({ where: { bookingId: b.id }, order: [['id', 'ASC']] })
 	]);
-	const people = await User.findAll({ where: { id: { [Op.in]: changes.map((c) => c.userId).filter((x): x is number => x !== null) } }, attributes: ['id', 'name'] });
+	const people = await User.findAll({
+		where: { id: { [Op.in]: changes.map((c) => c.userId).filter((x): x is number => x !== null) } },
+		attributes: ['id', 'name']
+	});
 	const nameOf = new Map(people.map((p) => [p.id, p.name]));
 	return {
 		id: b.id,
@@ -214,8 +305,17 @@ async function view(b: Booking): Promise<BookingView> {
 		sequence: b.sequence,
 		reason: b.reason,
 		timeZone: cap?.timeZone ?? DEFAULT_CAPACITY.timeZone,
-		startsAtLocal: b.startsAt ? toLocal(b.startsAt, cap?.timeZone ?? DEFAULT_CAPACITY.timeZone) : '',
-		changes: changes.map((c) => ({ at: c.at, who: c.userId ? (nameOf.get(c.userId) ?? '') : 'Sootcast', action: c.action, toState: c.toState, startsAt: c.startsAt, reason: c.reason }))
+		startsAtLocal: b.startsAt
+			? toLocal(b.startsAt, cap?.timeZone ?? DEFAULT_CAPACITY.timeZone)
+			: '',
+		changes: changes.map((c) => ({
+			at: c.at,
+			who: c.userId ? (nameOf.get(c.userId) ?? '') : 'Sootcast',
+			action: c.action,
+			toState: c.toState,
+			startsAt: c.startsAt,
+			reason: c.reason
+		}))
 	};
 }
 
@@ -224,13 +324,20 @@ async function view(b: Booking): Promise<BookingView> {
  * earliest crossing (at most four weeks), or four weeks when no crossing is forecast. `null`
  * `to` never happens; a crossing already past gives a window of the next three days.
  */
-export async function suggestWindow(vehicleId: number, now: Date): Promise<{ from: Date; to: Date; crossingEarliest: Date | null }> {
+export async function suggestWindow(
+	vehicleId: number,
+	now: Date
+): Promise<{ from: Date; to: Date; crossingEarliest: Date | null }> {
 	const status = await VehicleStatus.findByPk(vehicleId, { attributes: ['crossingEarliest'] });
 	const crossing = status?.crossingEarliest ? new Date(status.crossingEarliest) : null;
-	const from = new Date(Date.UTC(now.getUTCFullYear(), now.getUTCMonth(), now.getUTCDate()) + DAY_MS);
+	const from = new Date(
+		Date.UTC(now.getUTCFullYear(), now.getUTCMonth(), now.getUTCDate()) + DAY_MS
+	);
 	let to = new Date(from.getTime() + 28 * DAY_MS);
 	if (crossing) {
-		const beforeCrossing = new Date(Date.UTC(crossing.getUTCFullYear(), crossing.getUTCMonth(), crossing.getUTCDate()) - DAY_MS);
+		const beforeCrossing = new Date(
+			Date.UTC(crossing.getUTCFullYear(), crossing.getUTCMonth(), crossing.getUTCDate()) - DAY_MS
+		);
 		to = beforeCrossing.getTime() < to.getTime() ? beforeCrossing : to;
 		if (to.getTime() < from.getTime() + 2 * DAY_MS) to = new Date(from.getTime() + 2 * DAY_MS);
 	}
@@ -241,7 +348,11 @@ export async function suggestWindow(vehicleId: number, now: Date): Promise<{ fro
 export async function bookableWorkshops(fleetId: number, now: Date): Promise<Capacity[]> {
 	const today = isoDay(now);
 	const contracts = await Contract.findAll({
-		where: { fleetId, startsOn: { [Op.lte]: today }, [Op.or]: [{ endsOn: null }, { endsOn: { [Op.gte]: today } }] }
+		where: {
+			fleetId,
+			startsOn: { [Op.lte]: today },
+			[Op.or]: [{ endsOn: null }, { endsOn: { [Op.gte]: today } }]
+		}
 	});
 	return Promise.all([...new Set(contracts.map((c) => c.workshopId))].map((id) => getCapacity(id)));
 }
@@ -255,21 +366,50 @@ export interface VisitRequestInput {
 	note?: string;
 }
 
-async function record(b: Booking, user: SessionUser | null, action: string, fromState: string | null, now: Date) {
+async function record(
+	b: Booking,
+	user: SessionUser | null,
+	action: string,
+	fromState: string | null,
+	now: Date
+) {
 	await BookingChange.create({
-		bookingId: b.id, userId: user?.id ?? null, at: now, action, fromState, toState: b.state,
-		startsAt: b.startsAt, endsAt: b.endsAt, sequence: b.sequence, reason: b.reason
+		bookingId: b.id,
+		userId: user?.id ?? null,
+		at: now,
+		action,
+		fromState,
+		toState: b.state,
+		startsAt: b.startsAt,
+		endsAt: b.endsAt,
+		sequence: b.sequence,
+		reason: b.reason
 	});
-	await recordAudit(user, `booking.${action}`, 'booking', b.id, { state: b.state, sequence: b.sequence }, now);
+	await recordAudit(
+		user,
+		`booking.${action}`,
+		'booking',
+		b.id,
+		{ state: b.state, sequence: b.sequence },
+		now
+	);
 }
 
 /** A fleet manager asks a contracted workshop for a visit; the request holds a bay. */
-export async function requestVisit(user: SessionUser, input: VisitRequestInput, now = new Date()): Promise<BookingView> {
-	if (user.role !== 'fleet_manager') throw new ForbiddenError('Only fleet managers request visits.');
-	const vehicle = await Vehicle.findOne({ where: { id: input.vehicleId, organisationId: user.organisationId } });
+export async function requestVisit(
+	user: SessionUser,
+	input: VisitRequestInput,
+	now = new Date()
+): Promise<BookingView> {
+	if (user.role !== 'fleet_manager')
+		throw new ForbiddenError('Only fleet managers request visits.');
+	const vehicle = await Vehicle.findOne({
+		where: { id: input.vehicleId, organisationId: user.organisationId }
+	});
 	if (!vehicle) throw new NotFoundError('That van');
 	const workshop = await Organisation.findByPk(input.workshopId);
-	if (!workshop || workshop.kind !== 'workshop') throw new ValidationError('Choose a workshop.', { workshopId: 'Choose a workshop.' });
+	if (!workshop || workshop.kind !== 'workshop')
+		throw new ValidationError('Choose a workshop.', { workshopId: 'Choose a workshop.' });
 	if (!(await hasActiveContract(vehicle.organisationId, workshop.id, now))) {
 		const msg = `${workshop.name} has no active contract with your fleet, so it cannot take ${vehicle.registration}.`;
 		throw new ValidationError(msg, { workshopId: msg });
@@ -279,7 +419,9 @@ export async function requestVisit(user: SessionUser, input: VisitRequestInput, 
 	const { endsAt, day } = checkVisitTime(cap, input.visitKind, startsAt, now);
 	const window = await suggestWindow(vehicle.id, now);
 	const booking = await getDb().transaction(async () => {
-		const open = await Booking.findOne({ where: { vehicleId: vehicle.id, state: { [Op.in]: [...OPEN_BOOKING_STATES] } } });
+		const open = await Booking.findOne({
+			where: { vehicleId: vehicle.id, state: { [Op.in]: [...OPEN_BOOKING_STATES] } }
+		});
 		if (open) {
 			const msg = `${vehicle.registration} already has an open visit; reschedule or cancel that one instead.`;
 			throw new ValidationError(msg, { startsAt: msg });
@@ -307,12 +449,26 @@ export async function requestVisit(user: SessionUser, input: VisitRequestInput, 
 }
 
 function refuseClosed(b: Booking): void {
-	if (b.state === 'cancelled') throw new ValidationError('This visit was cancelled, so it cannot be changed. Request a new visit instead.');
-	if (b.state === 'declined') throw new ValidationError('The workshop declined this visit, so it cannot be changed. Request a new visit instead.');
-	if (b.state === 'done') throw new ValidationError('This visit has taken place and has its report; it cannot be changed.');
+	if (b.state === 'cancelled')
+		throw new ValidationError(
+			'This visit was cancelled, so it cannot be changed. Request a new visit instead.'
+		);
+	if (b.state === 'declined')
+		throw new ValidationError(
+			'The workshop declined this visit, so it cannot be changed. Request a new visit instead.'
+		);
+	if (b.state === 'done')
+		throw new ValidationError(
+			'This visit has taken place and has its report; it cannot be changed.'
+		);
 }
 
-async function change(user: SessionUser, bookingId: number, now: Date, work: (b: Booking) => Promise<string>): Promise<BookingView> {
+async function change(
+	user: SessionUser,
+	bookingId: number,
+	now: Date,
+	work: (b: Booking) => Promise<string>
+): Promise<BookingView> {
 	await getDb().transaction(async () => {
 		const b = await findBooking(user, bookingId);
 		refuseClosed(b);
@@ -331,11 +487,25 @@ export function confirmBooking(user: SessionUser, bookingId: number, now = new D
 	return change(user, bookingId, now, async (b) => {
 		const mine = user.role === 'workshop' ? b.state === 'requested' : b.state === 'proposed';
 		if (b.state === 'confirmed') throw new ValidationError('This visit is already confirmed.');
-		if (!mine) throw new ValidationError(user.role === 'workshop' ? 'The fleet has not accepted your proposed time yet.' : 'The workshop has not answered this request yet.');
-		if (!(await hasActiveContract((await Vehicle.findByPk(b.vehicleId))!.organisationId, b.workshopId, now))) {
-			throw new ValidationError('The contract between the fleet and the workshop has ended, so this visit cannot be confirmed.');
+		if (!mine)
+			throw new ValidationError(
+				user.role === 'workshop'
+					? 'The fleet has not accepted your proposed time yet.'
+					: 'The workshop has not answered this request yet.'
+			);
+		if (
+			!(await hasActiveContract(
+				(await Vehicle.findByPk(b.vehicleId))!.organisationId,
+				b.workshopId,
+				now
+			))
+		) {
+			throw new ValidationError(
+				'The contract between the fleet and the workshop has ended, so this visit cannot be confirmed.'
+			);
 		}
-		if (b.startsAt && b.startsAt.getTime() <= now.getTime()) throw new ValidationError('That time has already passed. Propose a new time instead.');
+		if (b.startsAt && b.startsAt.getTime() <= now.getTime())
+			throw new ValidationError('That time has already passed. Propose a new time instead.');
 		b.state = 'confirmed';
 		b.reason = null;
 		return 'confirmed';
@@ -346,7 +516,12 @@ export function confirmBooking(user: SessionUser, bookingId: number, now = new D
  * A new time, from either side, with a reason. From the workshop it is a proposal the fleet
  * accepts; from the fleet manager a new request the workshop confirms.
  */
-export function rescheduleBooking(user: SessionUser, bookingId: number, input: { startsAt: string; reason: string }, now = new Date()) {
+export function rescheduleBooking(
+	user: SessionUser,
+	bookingId: number,
+	input: { startsAt: string; reason: string },
+	now = new Date()
+) {
 	return change(user, bookingId, now, async (b) => {
 		const cap = await getCapacity(b.workshopId);
 		const startsAt = fromLocal(input.startsAt, cap.timeZone);
@@ -361,10 +536,17 @@ export function rescheduleBooking(user: SessionUser, bookingId: number, input: {
 }
 
 /** The workshop turns a request down, with a reason; the bay is freed. */
-export function declineBooking(user: SessionUser, bookingId: number, input: { reason: string }, now = new Date()) {
-	if (user.role !== 'workshop') throw new ForbiddenError('Only the workshop declines a request; cancel it instead.');
+export function declineBooking(
+	user: SessionUser,
+	bookingId: number,
+	input: { reason: string },
+	now = new Date()
+) {
+	if (user.role !== 'workshop')
+		throw new ForbiddenError('Only the workshop declines a request; cancel it instead.');
 	return change(user, bookingId, now, async (b) => {
-		if (b.state === 'confirmed') throw new ValidationError('This visit is confirmed; cancel it with a reason instead.');
+		if (b.state === 'confirmed')
+			throw new ValidationError('This visit is confirmed; cancel it with a reason instead.');
 		await BookingSlot.destroy({ where: { bookingId: b.id } });
 		b.state = 'declined';
 		b.reason = input.reason.trim();
@@ -373,7 +555,12 @@ export function declineBooking(user: SessionUser, bookingId: number, input: { re
 }
 
 /** Either side calls the visit off, with a reason; the bay is freed. */
-export function cancelBooking(user: SessionUser, bookingId: number, input: { reason: string }, now = new Date()) {
+export function cancelBooking(
+	user: SessionUser,
+	bookingId: number,
+	input: { reason: string },
+	now = new Date()
+) {
 	return change(user, bookingId, now, async (b) => {
 		await BookingSlot.destroy({ where: { bookingId: b.id } });
 		b.state = 'cancelled';
@@ -391,18 +578,32 @@ export interface WeekDay {
 }
 
 /** The workshop's week from `monday` (its local date): each day's bookings against its bays. */
-export async function workshopWeek(user: SessionUser, monday: string): Promise<{ capacity: Capacity; days: WeekDay[] }> {
+export async function workshopWeek(
+	user: SessionUser,
+	monday: string
+): Promise<{ capacity: Capacity; days: WeekDay[] }> {
 	if (user.role !== 'workshop') throw new ForbiddenError();
 	const cap = await getCapacity(user.organisationId);
 	const first = fromLocal(`${monday}T00:00`, cap.timeZone);
-	const end = fromLocal(`${isoDay(new Date(Date.parse(`${monday}T00:00:00Z`) + 7 * DAY_MS))}T00:00`, cap.timeZone);
-	const bookings = (await listBookings(user, { from: first, to: end })).filter((b) => (OPEN_BOOKING_STATES as readonly string[]).includes(b.state) || b.state === 'done');
+	const end = fromLocal(
+		`${isoDay(new Date(Date.parse(`${monday}T00:00:00Z`) + 7 * DAY_MS))}T00:00`,
+		cap.timeZone
+	);
+	const bookings = (await listBookings(user, { from: first, to: end })).filter(
+		(b) => (OPEN_BOOKING_STATES as readonly string[]).includes(b.state) || b.state === 'done'
+	);
 	const days: WeekDay[] = [];
 	for (let i = 0; i < 7; i++) {
 		const day = isoDay(new Date(Date.parse(`${monday}T00:00:00Z`) + i * DAY_MS));
 		const closed = cap.closedDays.find((c) => c.day === day);
 		const open = !cap.closedWeekdays.includes(i + 1) && !closed;
-		days.push({ day, open, closedNote: closed?.note ?? null, bays: open ? cap.baysPerDay : 0, bookings: bookings.filter((b) => b.startsAt && localDay(b.startsAt, cap.timeZone) === day) });
+		days.push({
+			day,
+			open,
+			closedNote: closed?.note ?? null,
+			bays: open ? cap.baysPerDay : 0,
+			bookings: bookings.filter((b) => b.startsAt && localDay(b.startsAt, cap.timeZone) === day)
+		});
 	}
 	return { capacity: cap, days };
 }
@@ -412,7 +613,8 @@ export function firstOpenStart(cap: Capacity, from: Date): string {
 	for (let i = 0; i < 21; i++) {
 		const day = isoDay(new Date(from.getTime() + i * DAY_MS));
 		const weekday = new Date(`${day}T12:00:00Z`).getUTCDay() || 7;
-		if (!cap.closedWeekdays.includes(weekday) && !cap.closedDays.some((c) => c.day === day)) return `${day}T${cap.opensAt}`;
+		if (!cap.closedWeekdays.includes(weekday) && !cap.closedDays.some((c) => c.day === day))
+			return `${day}T${cap.opensAt}`;
 	}
 	return `${isoDay(from)}T${cap.opensAt}`;
 }
@@ -420,12 +622,17 @@ export function firstOpenStart(cap: Capacity, from: Date): string {
 /** What the request form needs: the contracted workshops, the suggested window and a first time. */
 export async function visitRequestForm(user: SessionUser, vehicleId: number, now = new Date()) {
 	if (user.role !== 'fleet_manager') throw new ForbiddenError();
-	const vehicle = await Vehicle.findOne({ where: { id: vehicleId, organisationId: user.organisationId } });
+	const vehicle = await Vehicle.findOne({
+		where: { id: vehicleId, organisationId: user.organisationId }
+	});
 	if (!vehicle) throw new NotFoundError('That van');
 	const [workshops, window, open] = await Promise.all([
 		bookableWorkshops(user.organisationId, now),
 		suggestWindow(vehicleId, now),
-		Booking.findOne({ where: { vehicleId, state: { [Op.in]: [...OPEN_BOOKING_STATES] } }, attributes: ['id'] })
+		Booking.findOne({
+			where: { vehicleId, state: { [Op.in]: [...OPEN_BOOKING_STATES] } },
+			attributes: ['id']
+		})
 	]);
 	return {
 		vehicle: { id: vehicle.id, registration: vehicle.registration },
@@ -446,5 +653,7 @@ export function mondayOf(at: Date, timeZone: string): string {
 /** Requests and proposals waiting for an answer, oldest first. */
 export async function waitingBookings(user: SessionUser): Promise<BookingView[]> {
 	const all = await listBookings(user);
-	return all.filter((b) => (user.role === 'workshop' ? b.state === 'requested' : b.state === 'proposed'));
+	return all.filter((b) =>
+		user.role === 'workshop' ? b.state === 'requested' : b.state === 'proposed'
+	);
 }

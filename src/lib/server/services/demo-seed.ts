@@ -1,9 +1,27 @@
 import { simulateVanHistory } from '../../domain/simulate';
 import {
-	Contract, Depot, Organisation, Reading, SensorType, Trip, User, Vehicle, VehicleEvent, WorkshopCapacity, WorkshopVisitKind, getDb
+	Contract,
+	Depot,
+	Organisation,
+	Reading,
+	SensorType,
+	Trip,
+	User,
+	Vehicle,
+	VehicleEvent,
+	WorkshopCapacity,
+	WorkshopVisitKind,
+	getDb
 } from '../db';
 import { hashPassword } from '../auth/password';
-import { DEMO_ACCOUNTS, DEMO_DAYS, DEMO_PASSWORD, DEPOTS, DRIVER_NAMES, demoVans } from '../demo/scenario';
+import {
+	DEMO_ACCOUNTS,
+	DEMO_DAYS,
+	DEMO_PASSWORD,
+	DEPOTS,
+	DRIVER_NAMES,
+	demoVans
+} from '../demo/scenario';
 import { isoDay } from './scope';
 import { DEFAULT_VISIT_MINUTES } from '../../domain/visits';
 
@@ -18,7 +36,10 @@ export interface DemoSeedSummary {
 	trips: number;
 }
 
-async function insertInChunks<T extends object>(model: { bulkCreate(rows: T[]): Promise<unknown> }, rows: T[]) {
+async function insertInChunks<T extends object>(
+	model: { bulkCreate(rows: T[]): Promise<unknown> },
+	rows: T[]
+) {
 	for (let i = 0; i < rows.length; i += CHUNK) await model.bulkCreate(rows.slice(i, i + CHUNK));
 }
 
@@ -28,7 +49,8 @@ async function insertInChunks<T extends object>(model: { bulkCreate(rows: T[]): 
  * while staying the same story from run to run. Does nothing if any organisation exists.
  */
 export async function seedDemo(now = new Date(), days = DEMO_DAYS): Promise<DemoSeedSummary> {
-	if ((await Organisation.count()) > 0) return { seeded: false, vans: 0, readings: 0, events: 0, trips: 0 };
+	if ((await Organisation.count()) > 0)
+		return { seeded: false, vans: 0, readings: 0, events: 0, trips: 0 };
 	const passwordHash = await hashPassword(DEMO_PASSWORD);
 	const today = Date.UTC(now.getUTCFullYear(), now.getUTCMonth(), now.getUTCDate());
 	const start = new Date(today - days * DAY_MS);
@@ -37,21 +59,55 @@ export async function seedDemo(now = new Date(), days = DEMO_DAYS): Promise<Demo
 		const platform = await Organisation.create({ name: 'Sootcast operations', kind: 'platform' });
 		const larkspur = await Organisation.create({ name: 'Larkspur Lane Deliveries', kind: 'fleet' });
 		const thistledown = await Organisation.create({ name: 'Thistledown Utilities', kind: 'fleet' });
-		const fenwright = await Organisation.create({ name: 'Fenwright Diesel Clinic', kind: 'workshop' });
-		const copperbeech = await Organisation.create({ name: 'Copperbeech Van Care', kind: 'workshop' });
+		const fenwright = await Organisation.create({
+			name: 'Fenwright Diesel Clinic',
+			kind: 'workshop'
+		});
+		const copperbeech = await Organisation.create({
+			name: 'Copperbeech Van Care',
+			kind: 'workshop'
+		});
 
 		const person = (organisationId: number, email: string, name: string, role: User['role']) =>
-			User.create({ organisationId, email, name, role, passwordHash, notifyStatuses: ['over_line', 'crossing_soon'] });
+			User.create({
+				organisationId,
+				email,
+				name,
+				role,
+				passwordHash,
+				notifyStatuses: ['over_line', 'crossing_soon']
+			});
 		await person(platform.id, DEMO_ACCOUNTS.admin.email, DEMO_ACCOUNTS.admin.name, 'admin');
-		await person(larkspur.id, DEMO_ACCOUNTS.fleetManager.email, DEMO_ACCOUNTS.fleetManager.name, 'fleet_manager');
-		await person(thistledown.id, DEMO_ACCOUNTS.otherFleetManager.email, DEMO_ACCOUNTS.otherFleetManager.name, 'fleet_manager');
-		await person(fenwright.id, DEMO_ACCOUNTS.workshop.email, DEMO_ACCOUNTS.workshop.name, 'workshop');
-		await person(copperbeech.id, DEMO_ACCOUNTS.otherWorkshop.email, DEMO_ACCOUNTS.otherWorkshop.name, 'workshop');
+		await person(
+			larkspur.id,
+			DEMO_ACCOUNTS.fleetManager.email,
+			DEMO_ACCOUNTS.fleetManager.name,
+			'fleet_manager'
+		);
+		await person(
+			thistledown.id,
+			DEMO_ACCOUNTS.otherFleetManager.email,
+			DEMO_ACCOUNTS.otherFleetManager.name,
+			'fleet_manager'
+		);
+		await person(
+			fenwright.id,
+			DEMO_ACCOUNTS.workshop.email,
+			DEMO_ACCOUNTS.workshop.name,
+			'workshop'
+		);
+		await person(
+			copperbeech.id,
+			DEMO_ACCOUNTS.otherWorkshop.email,
+			DEMO_ACCOUNTS.otherWorkshop.name,
+			'workshop'
+		);
 		const drivers: User[] = [];
 		for (const name of DRIVER_NAMES) {
-			const email = name === DEMO_ACCOUNTS.driver.name
-				? DEMO_ACCOUNTS.driver.email
-				: `${name.toLowerCase().replace(/[^a-z]+/g, '.')}@larkspur.test`;
+			const email =
+				name === DEMO_ACCOUNTS.driver.name
+					? DEMO_ACCOUNTS.driver.email
+					: `${name.toLowerCase().replace(/[^a-z]+/g, '.')}@larkspur.test`;
 			drivers.push(await person(larkspur.id, email, name, 'driver'));
 		}
 
@@ -59,20 +115,59 @@ export async function seedDemo(now = new Date(), days = DEMO_DAYS): Promise<Demo
 		const startsOn = isoDay(start);
 		await Contract.create({ fleetId: larkspur.id, workshopId: fenwright.id, startsOn });
 		await Contract.create({ fleetId: thistledown.id, workshopId: copperbeech.id, startsOn });
-		await Contract.create({ fleetId: larkspur.id, workshopId: copperbeech.id, startsOn, endsOn: isoDay(new Date(today - 300 * DAY_MS)) });
+		await Contract.create({
+			fleetId: larkspur.id,
+			workshopId: copperbeech.id,
+			startsOn,
+			endsOn: isoDay(new Date(today - 300 * DAY_MS))
+		});
 
 		// Capacity: Fenwright has three bays and opens early; Copperbeech two bays and also Saturdays.
-		await WorkshopCapacity.create({ workshopId: fenwright.id, baysPerDay: 3, opensAt: '07:30', closesAt: '17:30', closedWeekdays: [6, 7], timeZone: 'Europe/London' });
-		await WorkshopCapacity.create({ workshopId: copperbeech.id, baysPerDay: 2, opensAt: '08:00', closesAt: '16:00', closedWeekdays: [7], timeZone: 'Europe/London' });
+		await WorkshopCapacity.create({
+			workshopId: fenwright.id,
+			baysPerDay: 3,
+			opensAt: '07:30',
+			closesAt: '17:30',
+			closedWeekdays: [6, 7],
+			timeZone: 'Europe/London'
+		});
+		await WorkshopCapacity.create({
+			workshopId: copperbeech.id,
+			baysPerDay: 2,
+			opensAt: '08:00',
+			closesAt: '16:00',
+			closedWeekdays: [7],
+			timeZone: 'Europe/London'
+		});
 		for (const [kind, durationMinutes] of Object.entries(DEFAULT_VISIT_MINUTES)) {
 			await WorkshopVisitKind.create({ workshopId: fenwright.id, kind, durationMinutes });
-			await WorkshopVisitKind.create({ workshopId: copperbeech.id, kind, durationMinutes: kind === 'off_vehicle_cleaning' ? 300 : durationMinutes });
+			await WorkshopVisitKind.create({
+				workshopId: copperbeech.id,
+				kind,
+				durationMinutes: kind === 'off_vehicle_cleaning' ? 300 : durationMinutes
+			});
 		}
 
-		const depots = await Promise.all(DEPOTS.map((d) => Depot.create({ organisationId: larkspur.id, name: d.name, town: d.town })));
-		const thistledownYard = await Depot.create({ organisationId: thistledown.id, name: 'Thistledown yard', town: 'Mereholt' });
-		const sensor = await SensorType.create({ name: 'Δp sensor 0–1000 mbar, 0.5–4.5 V', zeroVolts: 0.5, fullScaleVolts: 4.5, fullScaleMbar: 1000 });
-		await SensorType.create({ name: 'Δp sensor 0–500 mbar, 0.5–4.5 V', zeroVolts: 0.5, fullScaleVolts: 4.5, fullScaleMbar: 500 });
+		const depots = await Promise.all(
+			DEPOTS.map((d) => Depot.create({ organisationId: larkspur.id, name: d.name, town: d.town }))
+		);
+		const thistledownYard = await Depot.create({
+			organisationId: thistledown.id,
+			name: 'Thistledown yard',
+			town: 'Mereholt'
+		});
+		const sensor = await SensorType.create({
+			name: 'Δp sensor 0–1000 mbar, 0.5–4.5 V',
+			zeroVolts: 0.5,
+			fullScaleVolts: 4.5,
+			fullScaleMbar: 1000
+		});
+		await SensorType.create({
+			name: 'Δp sensor 0–500 mbar, 0.5–4.5 V',
+			zeroVolts: 0.5,
+			fullScaleVolts: 4.5,
+			fullScaleMbar: 500
+		});
 
 		const summary: DemoSeedSummary = { seeded: true, vans: 0, readings: 0, events: 0, trips: 0 };
 		const scenario = demoVans();
@@ -84,7 +179,11 @@ export async function seedDemo(now = new Date(), days = DEMO_DAYS): Promise<Demo
 				depotId: isLarkspur ? depots[van.depot].id : thistledownYard.id,
 				registration: van.registration,
 				makeModel: van.makeModel,
-				engineDisplacementCc: van.makeModel.includes('1.5') ? 1499 : van.makeModel.includes('2.2') ? 2179 : 1997,
+				engineDisplacementCc: van.makeModel.includes('1.5')
+					? 1499
+					: van.makeModel.includes('2.2')
+						? 2179
+						: 1997,
 				emissionClass: van.emissionClass,
 				fuel: van.fuel,
 				oilGrade: van.oilGrade,

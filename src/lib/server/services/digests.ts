@@ -10,13 +10,20 @@ import { queueMail } from './outbox';
 import { isoDay } from './scope';
 
 /** Does this person want to hear about this change? Their settings decide. */
-export function wantsChange(user: Pick<User, 'notifyStatuses' | 'crossingWindowDays'>, change: StoredForecast, now: Date): boolean {
+export function wantsChange(
+	user: Pick<User, 'notifyStatuses' | 'crossingWindowDays'>,
+	change: StoredForecast,
+	now: Date
+): boolean {
 	const statuses = new Set(user.notifyStatuses ?? []);
 	if (change.change === 'recovered') return statuses.size > 0;
 	if (!statuses.has(change.status)) return false;
 	if (change.change === 'entered_window') {
 		const expected = change.forecast.crossing.expected;
-		return expected !== null && expected.getTime() - now.getTime() <= user.crossingWindowDays * 86_400_000;
+		return (
+			expected !== null &&
+			expected.getTime() - now.getTime() <= user.crossingWindowDays * 86_400_000
+		);
 	}
 	return true;
 }
@@ -45,9 +52,16 @@ async function fleetsByWorkshop(fleetIds: number[], now: Date): Promise<Map<numb
  * managers and to the workshops contracted with that fleet. The dedupe key is the run and the
  * person, so re-queuing a run sends nothing twice. Returns how many messages were queued.
  */
-export async function queueDigests(changes: StoredForecast[], now: Date, runKey: string): Promise<number> {
+export async function queueDigests(
+	changes: StoredForecast[],
+	now: Date,
+	runKey: string
+): Promise<number> {
 	if (!changes.length) return 0;
-	const vans = await Vehicle.findAll({ where: { id: { [Op.in]: changes.map((c) => c.vehicleId) } }, raw: true });
+	const vans = await Vehicle.findAll({
+		where: { id: { [Op.in]: changes.map((c) => c.vehicleId) } },
+		raw: true
+	});
 	const vanById = new Map(vans.map((v) => [v.id, v]));
 	const fleetIds = [...new Set(vans.map((v) => v.organisationId))];
 	const workshopFleets = await fleetsByWorkshop(fleetIds, now);
@@ -64,11 +78,21 @@ export async function queueDigests(changes: StoredForecast[], now: Date, runKey:
 	});
 	let queued = 0;
 	for (const user of recipients) {
-		const visibleFleets = user.role === 'fleet_manager' ? new Set([user.organisationId]) : (workshopFleets.get(user.organisationId) ?? new Set());
+		const visibleFleets =
+			user.role === 'fleet_manager'
+				? new Set([user.organisationId])
+				: (workshopFleets.get(user.organisationId) ?? new Set());
 		const area = user.role === 'fleet_manager' ? 'fleet' : 'workshop';
-		const mine = changes.filter((c) => visibleFleets.has(vanById.get(c.vehicleId)!.organisationId) && wantsChange(user, c, now));
+		const mine = changes.filter(
+			(c) =>
+				visibleFleets.has(vanById.get(c.vehicleId)!.organisationId) && wantsChange(user, c, now)
+		);
 		if (!mine.length) continue;
-		mine.sort((a, b) => (a.forecast.crossing.expected?.getTime() ?? Infinity) - (b.forecast.crossing.expected?.getTime() ?? Infinity));
+		mine.sort(
+			(a, b) =>
+				(a.forecast.crossing.expected?.getTime() ?? Infinity) -
+				(b.forecast.crossing.expected?.getTime() ?? Infinity)
+		);
 		const digestVans: DigestVan[] = mine.map((c) => ({
 			registration: vanById.get(c.vehicleId)!.registration,
 			link: `${publicUrl()}/${area}/vans/${c.vehicleId}`,
@@ -97,11 +121,16 @@ export async function queueDigests(changes: StoredForecast[], now: Date, runKey:
 			.digest('hex')
 			.slice(0, 12);
 		const added = await queueMail(
-			{ recipient: user.email, subject: message.subject, text: message.text, html: message.html, dedupeKey: `digest:${runKey}:${user.id}:${changeHash}` },
+			{
+				recipient: user.email,
+				subject: message.subject,
+				text: message.text,
+				html: message.html,
+				dedupeKey: `digest:${runKey}:${user.id}:${changeHash}`
+			},
 			now
 		);
 		if (added) queued++;
 	}
 	return queued;
 }
-

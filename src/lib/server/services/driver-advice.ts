@@ -21,7 +21,11 @@ export interface VanAdvice {
 }
 
 /** This week's advice for one van from its own trips and its current forecast. */
-export async function adviceForVan(vehicleId: number, registration: string, now: Date): Promise<VanAdvice> {
+export async function adviceForVan(
+	vehicleId: number,
+	registration: string,
+	now: Date
+): Promise<VanAdvice> {
 	const since = new Date(now.getTime() - 28 * DAY_MS);
 	const trips = await Trip.findAll({
 		where: { vehicleId, startedAt: { [Op.gte]: since, [Op.lte]: now } },
@@ -45,13 +49,21 @@ export async function adviceForVan(vehicleId: number, registration: string, now:
 
 /** Advice for every van assigned to this driver. */
 export async function adviceForDriver(driverId: number, now: Date): Promise<VanAdvice[]> {
-	const vans = await Vehicle.findAll({ where: { driverId, archivedAt: null }, order: [['registration', 'ASC']], raw: true });
+	const vans = await Vehicle.findAll({
+		where: { driverId, archivedAt: null },
+		order: [['registration', 'ASC']],
+		raw: true
+	});
 	return Promise.all(vans.map((v) => adviceForVan(v.id, v.registration, now)));
 }
 
 // ─── Signed unsubscribe links ───────────────────────────────────────────────────────────
 
-const sign = (userId: number) => createHmac('sha256', appSecret()).update(`advice-unsubscribe:${userId}`).digest('base64url').slice(0, 32);
+const sign = (userId: number) =>
+	createHmac('sha256', appSecret())
+		.update(`advice-unsubscribe:${userId}`)
+		.digest('base64url')
+		.slice(0, 32);
 
 export function unsubscribeToken(userId: number): string {
 	return `${userId}.${sign(userId)}`;
@@ -90,8 +102,12 @@ export function isoWeek(date: Date): string {
  * The weekly advice: one message per driver (all their vans), to those who have not opted
  * out. The dedupe key is the driver and the ISO week, so a rerun sends nothing twice.
  */
-export async function queueWeeklyAdvice(now: Date): Promise<{ drivers: number; queued: number; skippedNoTrips: number }> {
-	const drivers = await User.findAll({ where: { role: 'driver', active: true, adviceOptOut: false, passwordHash: { [Op.ne]: null } } });
+export async function queueWeeklyAdvice(
+	now: Date
+): Promise<{ drivers: number; queued: number; skippedNoTrips: number }> {
+	const drivers = await User.findAll({
+		where: { role: 'driver', active: true, adviceOptOut: false, passwordHash: { [Op.ne]: null } }
+	});
 	let queued = 0;
 	let skippedNoTrips = 0;
 	const week = isoWeek(now);
@@ -111,7 +127,10 @@ export async function queueWeeklyAdvice(now: Date): Promise<{ drivers: number; q
 				.map(
 					(v) =>
 						`<h2 style="font-size:17px;margin:16px 0 6px">${escapeHtml(v.registration)}</h2><ul style="padding-left:20px;margin:0">${v.items
-							.map((i) => `<li style="margin-bottom:8px">${escapeHtml(i.text)}<br><span style="font-size:13px;color:#4b5659">Based on: ${escapeHtml(i.restsOn)}</span></li>`)
+							.map(
+								(i) =>
+									`<li style="margin-bottom:8px">${escapeHtml(i.text)}<br><span style="font-size:13px;color:#4b5659">Based on: ${escapeHtml(i.restsOn)}</span></li>`
+							)
 							.join('')}</ul>`
 				)
 				.join('')}${buttonHtml(`${publicUrl()}/driver`, 'See it in Sootcast')}`,

@@ -4,14 +4,20 @@ import type { SessionUser } from '../auth/lucia';
 
 /** The vans assigned to this driver with their latest forecast and the last fortnight of trips. */
 export async function listDriverVans(user: SessionUser, now = new Date()) {
-	const vans = await Vehicle.findAll({ where: { driverId: user.id, archivedAt: null }, order: [['registration', 'ASC']] });
+	const vans = await Vehicle.findAll({
+		where: { driverId: user.id, archivedAt: null },
+		order: [['registration', 'ASC']]
+	});
 	const since = new Date(now.getTime() - 14 * 86_400_000);
 	return Promise.all(
 		vans.map(async (v) => {
 			const [forecast, reading, trips] = await Promise.all([
 				Forecast.findOne({ where: { vehicleId: v.id }, order: [['id', 'DESC']] }),
 				Reading.findOne({ where: { vehicleId: v.id }, order: [['takenAt', 'DESC']] }),
-				Trip.findAll({ where: { vehicleId: v.id, startedAt: { [Op.gte]: since } }, order: [['startedAt', 'DESC']] })
+				Trip.findAll({
+					where: { vehicleId: v.id, startedAt: { [Op.gte]: since } },
+					order: [['startedAt', 'DESC']]
+				})
 			]);
 			return {
 				id: v.id,

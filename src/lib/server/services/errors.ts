@@ -84,6 +84,9 @@ export class ImportError extends Error {
 }
 
 export function describeProblem(p: FileProblem): string {
-	const where = p.line > 0 ? `Line ${p.line}, column ${p.column}${p.columnName ? ` (${p.columnName})` : ''}: ` : '';
+	const where =
+		p.line > 0
+			? `Line ${p.line}, column ${p.column}${p.columnName ? ` (${p.columnName})` : ''}: `
+			: '';
 	return `${where}${p.message}`;
 }

@@ -13,8 +13,10 @@ const WORRYING: VanStatus[] = ['over_line', 'crossing_soon'];
 
 export function statusChange(previous: VanStatus | null, next: VanStatus): StatusChange {
 	if (next === 'over_line' && previous !== 'over_line') return 'crossed_line';
-	if (next === 'crossing_soon' && !WORRYING.includes(previous as VanStatus)) return 'entered_window';
-	if (previous && WORRYING.includes(previous) && (next === 'healthy' || next === 'watch')) return 'recovered';
+	if (next === 'crossing_soon' && !WORRYING.includes(previous as VanStatus))
+		return 'entered_window';
+	if (previous && WORRYING.includes(previous) && (next === 'healthy' || next === 'watch'))
+		return 'recovered';
 	return null;
 }
 
@@ -22,20 +24,39 @@ type EngineInput = { readings: PressureReading[]; events: FilterEvent[] };
 
 /** The engine's view of some vans' rows: readings in mbar and events, in time order, per van. */
 export async function loadEngineInputs(vehicleIds: number[]): Promise<Map<number, EngineInput>> {
-	const inputs = new Map<number, EngineInput>(vehicleIds.map((id) => [id, { readings: [], events: [] }]));
+	const inputs = new Map<number, EngineInput>(
+		vehicleIds.map((id) => [id, { readings: [], events: [] }])
+	);
 	if (!vehicleIds.length) return inputs;
 	// One query per table for the whole batch: a query per van would cost more than the maths.
 	const [readings, events] = await Promise.all([
 		Reading.findAll({
-			attributes: ['id', 'vehicleId', 'takenAt', 'odometerKm', 'deltaPMbar', 'condition', 'rpm', 'airMassFlowKgH', 'exhaustTempC', 'ambientPressureKpa'],
+			attributes: [
+				'id',
+				'vehicleId',
+				'takenAt',
+				'odometerKm',
+				'deltaPMbar',
+				'condition',
+				'rpm',
+				'airMassFlowKgH',
+				'exhaustTempC',
+				'ambientPressureKpa'
+			],
 			where: { vehicleId: { [Op.in]: vehicleIds } },
-			order: [['vehicleId', 'ASC'], ['takenAt', 'ASC']],
+			order: [
+				['vehicleId', 'ASC'],
+				['takenAt', 'ASC']
+			],
 			raw: true
 		}),
 		VehicleEvent.findAll({
 			attributes: ['vehicleId', 'occurredAt', 'kind', 'odometerKm'],
 			where: { vehicleId: { [Op.in]: vehicleIds } },
-			order: [['vehicleId', 'ASC'], ['occurredAt', 'ASC']],
+			order: [
+				['vehicleId', 'ASC'],
+				['occurredAt', 'ASC']
+			],
 			raw: true
 		})
 	]);
@@ -43,8 +64,13 @@ export async function loadEngineInputs(vehicleIds: number[]): Promise<Map<number
 		const at = new Date(r.takenAt);
 		// Rows written around the app (a manual SQL fix, a broken import elsewhere) must not
 		// silently bend a forecast: the van is reported as failed with the reason instead.
-		if (Number.isNaN(at.getTime())) throw new VanDataError(r.vehicleId, `reading #${r.id} has an unreadable time "${String(r.takenAt)}"`);
-		if (!Number.isFinite(r.deltaPMbar)) throw new VanDataError(r.vehicleId, `reading #${r.id} has no usable pressure`);
+		if (Number.isNaN(at.getTime()))
+			throw new VanDataError(
+				r.vehicleId,
+				`reading #${r.id} has an unreadable time "${String(r.takenAt)}"`
+			);
+		if (!Number.isFinite(r.deltaPMbar))
+			throw new VanDataError(r.vehicleId, `reading #${r.id} has no usable pressure`);
 		inputs.get(r.vehicleId)!.readings.push({
 			at,
 			// A reading without an odometer still counts in time; km-based rates skip it.
@@ -58,7 +84,11 @@ export async function loadEngineInputs(vehicleIds: number[]): Promise<Map<number
 		});
 	}
 	for (const e of events) {
-		inputs.get(e.vehicleId)!.events.push({ at: new Date(e.occurredAt), kind: e.kind, odometerKm: e.odometerKm ?? undefined });
+		inputs.get(e.vehicleId)!.events.push({
+			at: new Date(e.occurredAt),
+			kind: e.kind,
+			odometerKm: e.odometerKm ?? undefined
+		});
 	}
 	return inputs;
 }
@@ -89,11 +119,23 @@ export interface StoredForecast {
 /** Each van's current status, in one query. */
 async function latestStatuses(vehicleIds: number[]): Promise<Map<number, VanStatus>> {
 	if (!vehicleIds.length) return new Map();
-	const rows = await VehicleStatus.findAll({ attributes: ['vehicleId', 'status'], where: { vehicleId: { [Op.in]: vehicleIds } }, raw: true });
+	const rows = await VehicleStatus.findAll({
+		attributes: ['vehicleId', 'status'],
+		where: { vehicleId: { [Op.in]: vehicleIds } },
+		raw: true
+	});
 	return new Map(rows.map((r) => [r.vehicleId, r.status as VanStatus]));
 }
 
-function forecastRow(vehicleId: number, forecast: CrossingForecast, status: VanStatus, previousStatus: VanStatus | null, change: StatusChange, now: Date, jobRunId: number | null) {
+function forecastRow(
+	vehicleId: number,
+	forecast: CrossingForecast,
+	status: VanStatus,
+	previousStatus: VanStatus | null,
+	change: StatusChange,
+	now: Date,
+	jobRunId: number | null
+) {
 	return {
 		vehicleId,
 		computedAt: now,
@@ -135,7 +177,13 @@ function forecastRow(vehicleId: number, forecast: CrossingForecast, status: VanS
 
 /** Board sort key: most urgent status first, then the soonest expected crossing. */
 export function urgencyKey(status: VanStatus, crossingExpected: Date | null, now: Date): number {
-	const days = crossingExpected === null ? 99_999 : Math.min(99_999, Math.max(0, Math.floor((crossingExpected.getTime() - now.getTime()) / 86_400_000)));
+	const days =
+		crossingExpected === null
+			? 99_999
+			: Math.min(
+					99_999,
+					Math.max(0, Math.floor((crossingExpected.getTime() - now.getTime()) / 86_400_000))
+				);
 	return STATUS_RANK[status] * 100_000 + days;
 }
 
@@ -165,7 +213,11 @@ interface BatchResult {
  * Forecasts a batch of vans and stores one new history row each, in one transaction. A van
  * whose data breaks the engine is reported and skipped; the others are still stored.
  */
-export async function forecastVehicles(vehicleIds: number[], now: Date, jobRunId: number | null = null): Promise<BatchResult> {
+export async function forecastVehicles(
+	vehicleIds: number[],
+	now: Date,
+	jobRunId: number | null = null
+): Promise<BatchResult> {
 	const result: BatchResult = { stored: [], failures: [] };
 	let inputs: Map<number, EngineInput>;
 	let pending = [...vehicleIds];
@@ -200,14 +252,30 @@ export async function forecastVehicles(vehicleIds: number[], now: Date, jobRunId
 	await getDb().transaction(async () => {
 		await Forecast.bulkCreate(rows);
 		await VehicleStatus.bulkCreate(rows.map(currentStatusRow), {
-			updateOnDuplicate: ['status', 'urgency', 'noCrossing', 'confidence', 'latestMbar', 'concernLineMbar', 'growthMbarPerWeek', 'crossingEarliest', 'crossingExpected', 'crossingLatest', 'computedAt']
+			updateOnDuplicate: [
+				'status',
+				'urgency',
+				'noCrossing',
+				'confidence',
+				'latestMbar',
+				'concernLineMbar',
+				'growthMbarPerWeek',
+				'crossingEarliest',
+				'crossingExpected',
+				'crossingLatest',
+				'computedAt'
+			]
 		});
 	});
 	return result;
 }
 
 /** Forecasts one van now and stores the result as the newest row of its history. */
-export async function forecastVehicle(vehicleId: number, now: Date, jobRunId: number | null = null): Promise<StoredForecast> {
+export async function forecastVehicle(
+	vehicleId: number,
+	now: Date,
+	jobRunId: number | null = null
+): Promise<StoredForecast> {
 	const { stored, failures } = await forecastVehicles([vehicleId], now, jobRunId);
 	if (failures.length) throw new Error(failures[0].error);
 	return stored[0];
@@ -224,7 +292,11 @@ export interface ForecastRunResult {
  * Forecasts every active van. A van whose data breaks the engine is reported as failed and
  * the run carries on with the others.
  */
-export async function forecastAllVehicles(now: Date, jobRunId: number | null = null, batchSize = 500): Promise<ForecastRunResult> {
+export async function forecastAllVehicles(
+	now: Date,
+	jobRunId: number | null = null,
+	batchSize = 500
+): Promise<ForecastRunResult> {
 	const result: ForecastRunResult = { vans: 0, forecast: 0, failures: [], changes: [] };
 	let afterId = 0;
 	for (;;) {
@@ -237,12 +309,19 @@ export async function forecastAllVehicles(now: Date, jobRunId: number | null = n
 		});
 		if (!batch.length) break;
 		result.vans += batch.length;
-		const { stored, failures } = await forecastVehicles(batch.map((v) => v.id), now, jobRunId);
+		const { stored, failures } = await forecastVehicles(
+			batch.map((v) => v.id),
+			now,
+			jobRunId
+		);
 		result.forecast += stored.length;
 		result.changes.push(...stored.filter((s) => s.change));
 		for (const failure of failures) {
-			const registration = batch.find((v) => v.id === failure.vehicleId)?.registration ?? `#${failure.vehicleId}`;
-			console.error(`[forecast] van ${registration} (#${failure.vehicleId}) failed: ${failure.error}`);
+			const registration =
+				batch.find((v) => v.id === failure.vehicleId)?.registration ?? `#${failure.vehicleId}`;
+			console.error(
+				`[forecast] van ${registration} (#${failure.vehicleId}) failed: ${failure.error}`
+			);
 			result.failures.push({ ...failure, registration });
 		}
 		afterId = batch[batch.length - 1].id;

@@ -6,7 +6,12 @@ import { JobLease } from '../db';
  * one. Works across processes and instances because the database decides: an insert for a
  * free job, a conditional update for an expired lease.
  */
-export async function acquireLease(job: string, holder: string, ttlMs: number, now = new Date()): Promise<boolean> {
+export async function acquireLease(
+	job: string,
+	holder: string,
+	ttlMs: number,
+	now = new Date()
+): Promise<boolean> {
 	const expiresAt = new Date(now.getTime() + ttlMs);
 	try {
 		await JobLease.create({ job, holder, expiresAt });
@@ -14,7 +19,10 @@ export async function acquireLease(job: string, holder: string, ttlMs: number, n
 	} catch (err) {
 		if (!(err instanceof UniqueConstraintError)) throw err;
 	}
-	const [taken] = await JobLease.update({ holder, expiresAt }, { where: { job, expiresAt: { [Op.lte]: now } } });
+	const [taken] = await JobLease.update(
+		{ holder, expiresAt },
+		{ where: { job, expiresAt: { [Op.lte]: now } } }
+	);
 	return taken === 1;
 }
 

@@ -4,7 +4,8 @@ import { JobRun } from '../db';
 import { acquireLease, releaseLease } from './job-lease';
 
 export type JobSummary = Record<string, number | string>;
-export type JobOutcome = { skipped: true; reason: string } | { skipped: false; runId: number; summary: JobSummary };
+export type JobOutcome =
+	{ skipped: true; reason: string } | { skipped: false; runId: number; summary: JobSummary };
 
 const HOLDER = `${os.hostname()}:${process.pid}:${randomUUID().slice(0, 8)}`;
 
@@ -28,7 +29,11 @@ export async function runUnderLease(
 		await run.update({ state: 'done', finishedAt: new Date(), summary });
 		return { skipped: false, runId: run.id, summary };
 	} catch (err) {
-		await run.update({ state: 'failed', finishedAt: new Date(), summary: { error: err instanceof Error ? err.message : String(err) } });
+		await run.update({
+			state: 'failed',
+			finishedAt: new Date(),
+			summary: { error: err instanceof Error ? err.message : String(err) }
+		});
 		throw err;
 	} finally {
 		await releaseLease(job, HOLDER);

@@ -6,7 +6,11 @@ import { deliverDueMail } from './outbox';
 export async function runNightlyForecast(now: Date, runId: number | null) {
 	const started = Date.now();
 	const result = await forecastAllVehicles(now, runId);
-	const queued = await queueDigests(result.changes, now, runId === null ? `day-${now.toISOString().slice(0, 10)}` : `run-${runId}`);
+	const queued = await queueDigests(
+		result.changes,
+		now,
+		runId === null ? `day-${now.toISOString().slice(0, 10)}` : `run-${runId}`
+	);
 	const delivery = await deliverDueMail(now);
 	return {
 		vans: result.vans,
@@ -16,6 +20,8 @@ export async function runNightlyForecast(now: Date, runId: number | null) {
 		messagesQueued: queued,
 		messagesSent: delivery.sent,
 		seconds: Math.round((Date.now() - started) / 100) / 10,
-		...(result.failures.length ? { failedVans: result.failures.map((f) => f.registration).join(', ') } : {})
+		...(result.failures.length
+			? { failedVans: result.failures.map((f) => f.registration).join(', ') }
+			: {})
 	};
 }

@@ -65,7 +65,10 @@ export async function deliverDueMail(now = new Date(), limit = 100): Promise<Del
 			{ where: { id: message.id, state: 'pending', attempts: message.attempts } }
 		);
 		if (claimed !== 1) continue; // another worker has it
-		const extra = (message.attachments ?? {}) as { files?: QueuedMail['attachments']; headers?: Record<string, string> };
+		const extra = (message.attachments ?? {}) as {
+			files?: QueuedMail['attachments'];
+			headers?: Record<string, string>;
+		};
 		try {
 			await sendMail({
 				to: message.recipient,
@@ -76,7 +79,10 @@ export async function deliverDueMail(now = new Date(), limit = 100): Promise<Del
 				headers: extra.headers,
 				attachments: extra.files ?? undefined
 			});
-			await OutboxMessage.update({ state: 'sent', sentAt: new Date(), lastError: null }, { where: { id: message.id } });
+			await OutboxMessage.update(
+				{ state: 'sent', sentAt: new Date(), lastError: null },
+				{ where: { id: message.id } }
+			);
 			summary.sent++;
 		} catch (err) {
 			const attempts = message.attempts + 1;
@@ -102,5 +108,7 @@ export async function deliverDueMail(now = new Date(), limit = 100): Promise<Del
  * password resets, booking changes).
  */
 export function kickOutbox(): void {
-	deliverDueMail().catch((err) => console.error('[outbox] immediate delivery failed; the outbox job will retry', err));
+	deliverDueMail().catch((err) =>
+		console.error('[outbox] immediate delivery failed; the outbox job will retry', err)
+	);
 }

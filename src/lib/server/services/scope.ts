@@ -23,7 +23,10 @@ export async function contractedFleetIds(workshopId: number, now = new Date()): 
  * their own fleet, a workshop the fleets it has an active contract with, a driver the vans
  * assigned to them. Admins look after accounts, not vans.
  */
-export async function vehicleScope(user: SessionUser, now = new Date()): Promise<WhereOptions<Vehicle>> {
+export async function vehicleScope(
+	user: SessionUser,
+	now = new Date()
+): Promise<WhereOptions<Vehicle>> {
 	switch (user.role) {
 		case 'fleet_manager':
 			return { organisationId: user.organisationId };

@@ -17,7 +17,10 @@ const windowStart = (now: Date) => new Date(now.getTime() - config.SIGNIN_LOCK_M
  * the database so the limit holds across app instances. Returns the user id, or null for one
  * neutral "wrong e-mail or password" answer.
  */
-export async function checkCredentials(input: SignInInput, now = new Date()): Promise<number | null> {
+export async function checkCredentials(
+	input: SignInInput,
+	now = new Date()
+): Promise<number | null> {
 	const accountKey = input.email.trim().toLowerCase();
 	const since = windowStart(now);
 	const [accountFailures, addressFailures] = await Promise.all([

@@ -9,9 +9,20 @@ import { IdempotencyKey, ImportBatch, Vehicle, VehicleEvent, getDb } from '../db
 import type { ApiUser } from './api-tokens';
 import { vehicleScope } from './scope';
 import { ConflictError, NotFoundError, ValidationError } from './errors';
-import { existingReadingKeys, insertReadings, vanTimeKey, type NewReadingRow } from './reading-writes';
+import {
+	existingReadingKeys,
+	insertReadings,
+	vanTimeKey,
+	type NewReadingRow
+} from './reading-writes';
 import { recordAudit } from './audit';
-import { decodeAt1imgPayload, decodeObdPid7a, decodeSpn3251Raw, parseHexBytes, type DecodedDeltaP } from '../../domain/telemetry';
+import {
+	decodeAt1imgPayload,
+	decodeObdPid7a,
+	decodeSpn3251Raw,
+	parseHexBytes,
+	type DecodedDeltaP
+} from '../../domain/telemetry';
 import { toMbar } from '../../domain/units';
 import type {
 	BatchResult,
@@ -59,7 +70,13 @@ const normalRegistration = (r: string) => r.trim().toUpperCase().replace(/\s+/g,
 /** The van each item names, all within the caller's reach; another fleet's van is a 404. */
 async function resolveVans(user: ApiUser, items: VanRef[], listName: string): Promise<number[]> {
 	const ids = [...new Set(items.flatMap((i) => (i.vehicleId !== undefined ? [i.vehicleId] : [])))];
-	const regs = [...new Set(items.flatMap((i) => (i.registration !== undefined ? [normalRegistration(i.registration)] : [])))];
+	const regs = [
+		...new Set(
+			items.flatMap((i) =>
+				i.registration !== undefined ? [normalRegistration(i.registration)] : []
+			)
+		)
+	];
 	const or = [];
 	if (ids.length) or.push({ id: { [Op.in]: ids } });
 	if (regs.length) or.push({ registration: { [Op.in]: regs } });
@@ -70,10 +87,16 @@ async function resolveVans(user: ApiUser, items: VanRef[], listName: string): Pr
 	const byId = new Map(vans.map((v) => [v.id, v.id]));
 	const byReg = new Map(vans.map((v) => [normalRegistration(v.registration), v.id]));
 	return items.map((item, index) => {
-		const found = item.vehicleId !== undefined ? byId.get(item.vehicleId) : byReg.get(normalRegistration(item.registration ?? ''));
+		const found =
+			item.vehicleId !== undefined
+				? byId.get(item.vehicleId)
+				: byReg.get(normalRegistration(item.registration ?? ''));
 		if (found === undefined) {
-			const named = item.vehicleId !== undefined ? `with id ${item.vehicleId}` : `“${item.registration}”`;
-			throw new NotFoundError(`The van ${named} (${listName}[${index}]) among the vans you can send data for`);
+			const named =
+				item.vehicleId !== undefined ? `with id ${item.vehicleId}` : `“${item.registration}”`;
+			throw new NotFoundError(
+				`The van ${named} (${listName}[${index}]) among the vans you can send data for`
+			);
 		}
 		return found;
 	});
@@ -81,15 +104,28 @@ async function resolveVans(user: ApiUser, items: VanRef[], listName: string): Pr
 
 async function replayed(user: ApiUser, idem: Idempotency | undefined): Promise<BatchAnswer | null> {
 	if (!idem) return null;
-	const row = await IdempotencyKey.findOne({ where: { organisationId: user.organisationId, key: idem.key } });
+	const row = await IdempotencyKey.findOne({
+		where: { organisationId: user.organisationId, key: idem.key }
+	});
 	if (!row) return null;
 	if (row.requestHash !== idem.requestHash || row.endpoint !== idem.endpoint) {
-		throw new ConflictError('This Idempotency-Key was already used for a different request; use a new key for new data.');
+		throw new ConflictError(
+			'This Idempotency-Key was already used for a different request; use a new key for new data.'
+		);
 	}
-	return { status: row.statusCode, body: JSON.parse(row.responseBody) as BatchResult, replayed: true };
+	return {
+		status: row.statusCode,
+		body: JSON.parse(row.responseBody) as BatchResult,
+		replayed: true
+	};
 }
 
-async function remember(user: ApiUser, idem: Idempotency | undefined, answer: BatchAnswer, now: Date) {
+async function remember(
+	user: ApiUser,
+	idem: Idempotency | undefined,
+	answer: BatchAnswer,
+	now: Date
+) {
 	if (!idem) return;
 	await IdempotencyKey.create({
 		organisationId: user.organisationId,
@@ -102,7 +138,8 @@ async function remember(user: ApiUser, idem: Idempotency | undefined, answer: Ba
 	});
 }
 
-const batchName = (user: ApiUser) => (user.apiTokenId ? `API: ${user.name}` : `API: ${user.name} (signed in)`).slice(0, 255);
+const batchName = (user: ApiUser) =>
+	(user.apiTokenId ? `API: ${user.name}` : `API: ${user.name} (signed in)`).slice(0, 255);
 
 /** Stores a batch of readings; see the module comment for the rules. */
 export async function recordReadingBatch(
@@ -117,7 +154,8 @@ export async function recordReadingBatch(
 		if (!result.ok) fields[`readings.${i}.deltaP`] ??= `Δp cannot be read: ${result.reason}.`;
 		const takenAt = new Date(r.takenAt);
 		if (takenAt.getTime() > now.getTime() + FUTURE_TOLERANCE_MS) {
-			fields[`readings.${i}.takenAt`] ??= `takenAt ${r.takenAt} is in the future; a reading must already have been taken.`;
+			fields[`readings.${i}.takenAt`] ??=
+				`takenAt ${r.takenAt} is in the future; a reading must already have been taken.`;
 		}
 		return { takenAt, mbar: result.ok ? result.mbar : NaN };
 	});
@@ -150,11 +188,17 @@ export async function recordReadingBatch(
 			const timeKey = vanTimeKey(vid, decoded[i].takenAt);
 			const idKey = r.clientReadingId ? `${vid}|${r.clientReadingId}` : null;
 			if (idKey && existing.clientIds.has(idKey)) {
-				duplicates.push({ index: i, reason: `clientReadingId “${r.clientReadingId}” is already stored for this van` });
+				duplicates.push({
+					index: i,
+					reason: `clientReadingId “${r.clientReadingId}” is already stored for this van`
+				});
 				return;
 			}
 			if (existing.times.has(timeKey)) {
-				duplicates.push({ index: i, reason: 'a reading for this van at this time is already stored' });
+				duplicates.push({
+					index: i,
+					reason: 'a reading for this van at this time is already stored'
+				});
 				return;
 			}
 			existing.times.add(timeKey);
@@ -188,7 +232,14 @@ export async function recordReadingBatch(
 			batchId = batch.id;
 			for (const row of rows) row.importBatchId = batch.id;
 			await insertReadings(rows, now);
-			await recordAudit(user, 'readings.api', 'import_batch', batch.id, { stored: rows.length, token: user.apiTokenId }, now);
+			await recordAudit(
+				user,
+				'readings.api',
+				'import_batch',
+				batch.id,
+				{ stored: rows.length, token: user.apiTokenId },
+				now
+			);
 		}
 		const answer: BatchAnswer = {
 			status: rows.length ? 201 : 200,
@@ -237,8 +288,12 @@ export async function recordEventBatch(
 				]
 			}
 		});
-		const seen = new Set(existing.map((e) => `${e.vehicleId}|${new Date(e.occurredAt).getTime()}|${e.kind}`));
-		const seenIds = new Set(existing.filter((e) => e.clientEventId).map((e) => `${e.vehicleId}|${e.clientEventId}`));
+		const seen = new Set(
+			existing.map((e) => `${e.vehicleId}|${new Date(e.occurredAt).getTime()}|${e.kind}`)
+		);
+		const seenIds = new Set(
+			existing.filter((e) => e.clientEventId).map((e) => `${e.vehicleId}|${e.clientEventId}`)
+		);
 		const duplicates: BatchResult['duplicates'] = [];
 		const rows: {
 			vehicleId: number;
@@ -255,11 +310,17 @@ export async function recordEventBatch(
 			const idKey = e.clientEventId ? `${vid}|${e.clientEventId}` : null;
 			const key = `${vid}|${times[i].getTime()}|${e.kind}`;
 			if (idKey && seenIds.has(idKey)) {
-				duplicates.push({ index: i, reason: `clientEventId “${e.clientEventId}” is already stored for this van` });
+				duplicates.push({
+					index: i,
+					reason: `clientEventId “${e.clientEventId}” is already stored for this van`
+				});
 				return;
 			}
 			if (seen.has(key)) {
-				duplicates.push({ index: i, reason: 'the same event for this van at this time is already stored' });
+				duplicates.push({
+					index: i,
+					reason: 'the same event for this van at this time is already stored'
+				});
 				return;
 			}
 			seen.add(key);
@@ -288,7 +349,14 @@ export async function recordEventBatch(
 			});
 			batchId = batch.id;
 			await VehicleEvent.bulkCreate(rows.map((r) => ({ ...r, importBatchId: batch.id })));
-			await recordAudit(user, 'events.api', 'import_batch', batch.id, { stored: rows.length, token: user.apiTokenId }, now);
+			await recordAudit(
+				user,
+				'events.api',
+				'import_batch',
+				batch.id,
+				{ stored: rows.length, token: user.apiTokenId },
+				now
+			);
 		}
 		const answer: BatchAnswer = {
 			status: rows.length ? 201 : 200,

@@ -26,7 +26,12 @@ function usageView(u: UsageSummary) {
 		kmPerDay: u.kmPerDay,
 		windowDays: u.windowDays,
 		thresholds: u.options,
-		weeks: u.weeks.map((w) => ({ from: w.from.toISOString(), trips: w.trips, shortTrips: w.shortTrips, regenCapable: w.regenCapableDrives }))
+		weeks: u.weeks.map((w) => ({
+			from: w.from.toISOString(),
+			trips: w.trips,
+			shortTrips: w.shortTrips,
+			regenCapable: w.regenCapableDrives
+		}))
 	};
 }
 
@@ -54,7 +59,13 @@ function forecastView(f: CrossingForecast) {
 		currentLevelMbar: f.currentLevelMbar,
 		typicalPeakMbar: f.typicalPeakMbar,
 		regenerations: f.regenerations,
-		crossing: { earliest: iso(f.crossing.earliest), expected: iso(f.crossing.expected), latest: iso(f.crossing.latest), level: f.crossing.level, beyondHorizon: f.crossing.beyondHorizon },
+		crossing: {
+			earliest: iso(f.crossing.earliest),
+			expected: iso(f.crossing.expected),
+			latest: iso(f.crossing.latest),
+			level: f.crossing.level,
+			beyondHorizon: f.crossing.beyondHorizon
+		},
 		confidence: f.confidence,
 		explanation: f.explanation
 	};
@@ -64,33 +75,73 @@ function forecastView(f: CrossingForecast) {
  * Everything a van's page shows, computed now from its stored rows: the chosen comparable
  * series for the chart, the live forecast and status, usage, root-cause hints and advice.
  */
-export async function getVanStory(user: SessionUser, vehicleId: number, options: { series?: SeriesKind; now?: Date } = {}) {
+export async function getVanStory(
+	user: SessionUser,
+	vehicleId: number,
+	options: { series?: SeriesKind; now?: Date } = {}
+) {
 	const now = options.now ?? new Date();
 	const vehicle = await findVisibleVehicle(user, vehicleId);
-	const [input, depot, driver, sensorType, recentReadings, events, trips, visits] = await Promise.all([
-		loadEngineInput(vehicleId),
-		vehicle.depotId ? Depot.findByPk(vehicle.depotId, { raw: true }) : null,
-		vehicle.driverId ? User.findByPk(vehicle.driverId, { attributes: ['id', 'name'], raw: true }) : null,
-		vehicle.sensorTypeId ? SensorType.findByPk(vehicle.sensorTypeId, { raw: true }) : null,
-		Reading.findAll({ where: { vehicleId }, order: [['takenAt', 'DESC']], limit: 50, raw: true }),
-		VehicleEvent.findAll({ where: { vehicleId }, order: [['occurredAt', 'DESC']], limit: 400, raw: true }),
-		Trip.findAll({ where: { vehicleId, startedAt: { [Op.gte]: new Date(now.getTime() - 56 * DAY_MS) } }, order: [['startedAt', 'DESC']], raw: true }),
-		VisitReport.findAll({ where: { vehicleId }, order: [['visitedAt', 'DESC']], limit: 20, raw: true })
-	]);
+	const [input, depot, driver, sensorType, recentReadings, events, trips, visits] =
+		await Promise.all([
+			loadEngineInput(vehicleId),
+			vehicle.depotId ? Depot.findByPk(vehicle.depotId, { raw: true }) : null,
+			vehicle.driverId
+				? User.findByPk(vehicle.driverId, { attributes: ['id', 'name'], raw: true })
+				: null,
+			vehicle.sensorTypeId ? SensorType.findByPk(vehicle.sensorTypeId, { raw: true }) : null,
+			Reading.findAll({ where: { vehicleId }, order: [['takenAt', 'DESC']], limit: 50, raw: true }),
+			VehicleEvent.findAll({
+				where: { vehicleId },
+				order: [['occurredAt', 'DESC']],
+				limit: 400,
+				raw: true
+			}),
+			Trip.findAll({
+				where: { vehicleId, startedAt: { [Op.gte]: new Date(now.getTime() - 56 * DAY_MS) } },
+				order: [['startedAt', 'DESC']],
+				raw: true
+			}),
+			VisitReport.findAll({
+				where: { vehicleId },
+				order: [['visitedAt', 'DESC']],
+				limit: 20,
+				raw: true
+			})
+		]);
 	const forecast = forecastCrossing({ readings: input.readings, events: input.events, now });
-	const status = statusFromForecast(forecast, now, { soonDays: config.FORECAST_SOON_DAYS, watchDays: config.FORECAST_WATCH_DAYS });
+	const status = statusFromForecast(forecast, now, {
+		soonDays: config.FORECAST_SOON_DAYS,
+		watchDays: config.FORECAST_WATCH_DAYS
+	});
 	const usage = summariseUsage(
-		trips.map((t) => ({ start: new Date(t.startedAt), end: new Date(t.endedAt), distanceKm: t.distanceKm, idleMinutes: t.idleMinutes, meanSpeedKmh: t.meanSpeedKmh ?? 0 })),
+		trips.map((t) => ({
+			start: new Date(t.startedAt),
+			end: new Date(t.endedAt),
+			distanceKm: t.distanceKm,
+			idleMinutes: t.idleMinutes,
+			meanSpeedKmh: t.meanSpeedKmh ?? 0
+		})),
 		now
 	);
 	const hints = findRootCauseHints(forecast, usage.trips ? usage : null, {
 		fuel: vehicle.fuel,
 		oilSpec: vehicle.oilGrade ?? undefined
 	});
-	const advice = user.role === 'fleet_manager' ? adviseFleetManager(vehicle.registration, usage.trips ? usage : null, forecast, status) : [];
+	const advice =
+		user.role === 'fleet_manager'
+			? adviseFleetManager(vehicle.registration, usage.trips ? usage : null, forecast, status)
+			: [];
 
-	const available = SERIES_KINDS.map((kind) => ({ kind, label: SERIES_LABELS[kind], count: buildSeries(input.readings, kind).points.length })).filter((s) => s.count > 0);
-	const chosen = options.series && available.some((s) => s.kind === options.series) ? options.series : forecast.series.kind;
+	const available = SERIES_KINDS.map((kind) => ({
+		kind,
+		label: SERIES_LABELS[kind],
+		count: buildSeries(input.readings, kind).points.length
+	})).filter((s) => s.count > 0);
+	const chosen =
+		options.series && available.some((s) => s.kind === options.series)
+			? options.series
+			: forecast.series.kind;
 	const series = buildSeries(input.readings, chosen);
 
 	return {
@@ -118,10 +169,35 @@ export async function getVanStory(user: SessionUser, vehicleId: number, options:
 			points: series.points.map((p) => ({ at: p.at.toISOString(), mbar: p.deltaPMbar })),
 			showsForecast: chosen === forecast.series.kind
 		},
-		events: events.map((e) => ({ id: e.id, at: iso(e.occurredAt)!, kind: e.kind, odometerKm: e.odometerKm ?? null, notes: e.notes ?? null, source: e.source })),
-		readings: recentReadings.map((r) => ({ id: r.id, at: iso(r.takenAt)!, mbar: r.deltaPMbar, condition: r.condition, odometerKm: r.odometerKm ?? null, source: r.source })),
-		trips: trips.slice(0, 30).map((t) => ({ id: t.id, start: iso(t.startedAt)!, end: iso(t.endedAt)!, distanceKm: t.distanceKm, idleMinutes: t.idleMinutes })),
-		visits: visits.map((v) => ({ id: v.id, at: iso(v.visitedAt)!, findings: v.findings ?? null, signedOff: v.signedOffAt !== null })),
+		events: events.map((e) => ({
+			id: e.id,
+			at: iso(e.occurredAt)!,
+			kind: e.kind,
+			odometerKm: e.odometerKm ?? null,
+			notes: e.notes ?? null,
+			source: e.source
+		})),
+		readings: recentReadings.map((r) => ({
+			id: r.id,
+			at: iso(r.takenAt)!,
+			mbar: r.deltaPMbar,
+			condition: r.condition,
+			odometerKm: r.odometerKm ?? null,
+			source: r.source
+		})),
+		trips: trips.slice(0, 30).map((t) => ({
+			id: t.id,
+			start: iso(t.startedAt)!,
+			end: iso(t.endedAt)!,
+			distanceKm: t.distanceKm,
+			idleMinutes: t.idleMinutes
+		})),
+		visits: visits.map((v) => ({
+			id: v.id,
+			at: iso(v.visitedAt)!,
+			findings: v.findings ?? null,
+			signedOff: v.signedOffAt !== null
+		})),
 		usage: usageView(usage),
 		hints,
 		advice: advice.map((a) => ({ text: a.text, restsOn: a.restsOn }))

@@ -1,5 +1,15 @@
 import { Op, type WhereOptions } from 'sequelize';
-import { Depot, Forecast, Reading, SensorType, Trip, User, Vehicle, VehicleEvent, getDb } from '../db';
+import {
+	Depot,
+	Forecast,
+	Reading,
+	SensorType,
+	Trip,
+	User,
+	Vehicle,
+	VehicleEvent,
+	getDb
+} from '../db';
 import type { SessionUser } from '../auth/lucia';
 import type { ListQueryInput, VehicleDetailsInput } from '../../validation/vehicle';
 import { vehicleScope } from './scope';
@@ -26,10 +36,19 @@ export interface Page<T> {
 }
 
 /** The vans this person may see, one page at a time, with their latest reading and status. */
-export async function listVehicles(user: SessionUser, query: ListQueryInput): Promise<Page<VehicleListItem>> {
+export async function listVehicles(
+	user: SessionUser,
+	query: ListQueryInput
+): Promise<Page<VehicleListItem>> {
 	const scope = await vehicleScope(user);
 	const where: WhereOptions<Vehicle> = query.q
-		? { [Op.and]: [scope, { registration: { [Op.like]: `%${query.q.toUpperCase()}%` } }, { archivedAt: null }] }
+		? {
+				[Op.and]: [
+					scope,
+					{ registration: { [Op.like]: `%${query.q.toUpperCase()}%` } },
+					{ archivedAt: null }
+				]
+			}
 		: { [Op.and]: [scope, { archivedAt: null }] };
 	const { rows, count } = await Vehicle.findAndCountAll({
 		where,
@@ -42,10 +61,16 @@ export async function listVehicles(user: SessionUser, query: ListQueryInput): Pr
 		offset: (query.page - 1) * query.pageSize
 	});
 	const ids = rows.map((v) => v.id);
-	const [latestReadings, latestForecasts] = await Promise.all([latestReadingByVehicle(ids), latestForecastByVehicle(ids)]);
+	const [latestReadings, latestForecasts] = await Promise.all([
+		latestReadingByVehicle(ids),
+		latestForecastByVehicle(ids)
+	]);
 	return {
 		items: rows.map((v) => {
-			const plain = v.get({ plain: true }) as Vehicle & { depot?: { name: string }; driver?: { name: string } };
+			const plain = v.get({ plain: true }) as Vehicle & {
+				depot?: { name: string };
+				driver?: { name: string };
+			};
 			const reading = latestReadings.get(v.id);
 			const forecast = latestForecasts.get(v.id);
 			return {
@@ -57,7 +82,9 @@ export async function listVehicles(user: SessionUser, query: ListQueryInput): Pr
 				latestReadingAt: reading ? new Date(reading.takenAt).toISOString() : null,
 				latestDeltaPMbar: reading?.deltaPMbar ?? null,
 				status: forecast?.status ?? null,
-				crossingExpected: forecast?.crossingExpected ? new Date(forecast.crossingExpected).toISOString() : null
+				crossingExpected: forecast?.crossingExpected
+					? new Date(forecast.crossingExpected).toISOString()
+					: null
 			};
 		}),
 		total: count,
@@ -77,7 +104,9 @@ async function latestReadingByVehicle(ids: number[]): Promise<Map<number, Readin
 	})) as unknown as { vehicleId: number; takenAt: string | Date }[];
 	if (!newest.length) return new Map();
 	const rows = await Reading.findAll({
-		where: { [Op.or]: newest.map((n) => ({ vehicleId: n.vehicleId, takenAt: new Date(n.takenAt) })) }
+		where: {
+			[Op.or]: newest.map((n) => ({ vehicleId: n.vehicleId, takenAt: new Date(n.takenAt) }))
+		}
 	});
 	return new Map(rows.map((r) => [r.vehicleId, r]));
 }
@@ -97,7 +126,9 @@ async function latestForecastByVehicle(ids: number[]): Promise<Map<number, Forec
 
 /** One van this person may see, or NotFoundError (also for another organisation's van). */
 export async function findVisibleVehicle(user: SessionUser, vehicleId: number): Promise<Vehicle> {
-	const vehicle = await Vehicle.findOne({ where: { [Op.and]: [await vehicleScope(user), { id: vehicleId }] } });
+	const vehicle = await Vehicle.findOne({
+		where: { [Op.and]: [await vehicleScope(user), { id: vehicleId }] }
+	});
 	if (!vehicle) throw new NotFoundError('That van');
 	return vehicle;
 }
@@ -126,7 +157,11 @@ export async function getVehicleStory(user: SessionUser, vehicleId: number) {
 }
 
 /** Fleet managers edit their own vans' details. */
-export async function updateVehicleDetails(user: SessionUser, vehicleId: number, input: VehicleDetailsInput) {
+export async function updateVehicleDetails(
+	user: SessionUser,
+	vehicleId: number,
+	input: VehicleDetailsInput
+) {
 	return getDb().transaction(async () => {
 		const vehicle = await findVisibleVehicle(user, vehicleId);
 		if (user.role !== 'fleet_manager') throw new NotFoundError('That van');

@@ -1,5 +1,16 @@
 import { Op } from 'sequelize';
-import { getDb, Booking, BookingChange, Organisation, Reading, SensorTest, User, Vehicle, VehicleEvent, VisitReport } from '../db';
+import {
+	getDb,
+	Booking,
+	BookingChange,
+	Organisation,
+	Reading,
+	SensorTest,
+	User,
+	Vehicle,
+	VehicleEvent,
+	VisitReport
+} from '../db';
 import type { SessionUser } from '../auth/lucia';
 import { publicUrl } from '../config';
 import { buttonHtml, escapeHtml, frameHtml } from '../mail/html';
@@ -15,7 +26,13 @@ import { vehicleScope } from './scope';
 import { listBookings } from './bookings';
 
 /** What a workshop can record as done; each becomes a vehicle event the forecast reads. */
-export const VISIT_ACTIONS = ['regen_service', 'filter_cleaning', 'filter_replacement', 'sensor_repair', 'pipe_repair'] as const;
+export const VISIT_ACTIONS = [
+	'regen_service',
+	'filter_cleaning',
+	'filter_replacement',
+	'sensor_repair',
+	'pipe_repair'
+] as const;
 export type VisitAction = (typeof VISIT_ACTIONS)[number];
 export const VISIT_ACTION_LABEL: Record<VisitAction, string> = {
 	regen_service: 'Service regeneration',
@@ -33,7 +50,13 @@ const EVENT_OF: Record<VisitAction, EventKind> = {
 	pipe_repair: 'sensor_repair'
 };
 
-export const ROOT_CAUSE_FIELDS = ['usage', 'fuel', 'oilGrade', 'serviceHistory', 'engineFaults'] as const;
+export const ROOT_CAUSE_FIELDS = [
+	'usage',
+	'fuel',
+	'oilGrade',
+	'serviceHistory',
+	'engineFaults'
+] as const;
 export const ROOT_CAUSE_LABEL: Record<(typeof ROOT_CAUSE_FIELDS)[number], string> = {
 	usage: 'Usage profile (trips, idling, stop-start)',
 	fuel: 'Fuel',
@@ -78,21 +101,41 @@ export interface VisitReportView {
  * in the forecast), the booking is done. Then the van is forecast again and the fleet's
  * managers are e-mailed the report.
  */
-export async function createVisitReport(user: SessionUser, bookingId: number, input: VisitReportInput, now = new Date()): Promise<VisitReportView> {
-	if (user.role !== 'workshop') throw new ForbiddenError('Only the workshop writes the visit report.');
+export async function createVisitReport(
+	user: SessionUser,
+	bookingId: number,
+	input: VisitReportInput,
+	now = new Date()
+): Promise<VisitReportView> {
+	if (user.role !== 'workshop')
+		throw new ForbiddenError('Only the workshop writes the visit report.');
 	const reportId = await getDb().transaction(async () => {
-		const booking = await Booking.findOne({ where: { id: bookingId, workshopId: user.organisationId } });
+		const booking = await Booking.findOne({
+			where: { id: bookingId, workshopId: user.organisationId }
+		});
 		if (!booking) throw new NotFoundError('That visit');
-		const vehicle = await Vehicle.findOne({ where: { [Op.and]: [await vehicleScope(user, now), { id: booking.vehicleId }] } });
+		const vehicle = await Vehicle.findOne({
+			where: { [Op.and]: [await vehicleScope(user, now), { id: booking.vehicleId }] }
+		});
 		if (!vehicle) throw new NotFoundError('That visit');
 		if (booking.state === 'done') throw new ValidationError('This visit already has its report.');
-		if (booking.state !== 'confirmed') throw new ValidationError('Only a confirmed visit can be reported. Confirm it first, or request a new one.');
+		if (booking.state !== 'confirmed')
+			throw new ValidationError(
+				'Only a confirmed visit can be reported. Confirm it first, or request a new one.'
+			);
 		if (input.visitedAt.getTime() > now.getTime()) {
-			throw new ValidationError('The visit time cannot be in the future.', { visitedAt: 'The visit time cannot be in the future.' });
+			throw new ValidationError('The visit time cannot be in the future.', {
+				visitedAt: 'The visit time cannot be in the future.'
+			});
 		}
 		if (input.sensorTestId) {
-			const test = await SensorTest.findOne({ where: { id: input.sensorTestId, vehicleId: vehicle.id } });
-			if (!test) throw new ValidationError('Choose one of this van’s tests.', { sensorTestId: 'Choose one of this van’s tests.' });
+			const test = await SensorTest.findOne({
+				where: { id: input.sensorTestId, vehicleId: vehicle.id }
+			});
+			if (!test)
+				throw new ValidationError('Choose one of this van’s tests.', {
+					sensorTestId: 'Choose one of this van’s tests.'
+				});
 		}
 		const report = await VisitReport.create({
 			vehicleId: vehicle.id,
@@ -114,23 +157,63 @@ export async function createVisitReport(user: SessionUser, bookingId: number, in
 		// Before-readings a minute before the visit time, the events at it, after-readings a minute later.
 		const at = input.visitedAt.getTime();
 		if (input.idleBeforeMbar !== undefined) {
-			await Reading.create({ vehicleId: vehicle.id, takenAt: new Date(at - 60_000), deltaPMbar: input.idleBeforeMbar, condition: 'idle', source: 'visit', authorId: user.id, odometerKm: input.odometerKm ?? null });
+			await Reading.create({
+				vehicleId: vehicle.id,
+				takenAt: new Date(at - 60_000),
+				deltaPMbar: input.idleBeforeMbar,
+				condition: 'idle',
+				source: 'visit',
+				authorId: user.id,
+				odometerKm: input.odometerKm ?? null
+			});
 		}
 		for (const action of input.actions) {
 			await VehicleEvent.create({
-				vehicleId: vehicle.id, occurredAt: input.visitedAt, kind: EVENT_OF[action], source: 'visit', authorId: user.id,
-				visitReportId: report.id, odometerKm: input.odometerKm ?? null, notes: VISIT_ACTION_LABEL[action]
+				vehicleId: vehicle.id,
+				occurredAt: input.visitedAt,
+				kind: EVENT_OF[action],
+				source: 'visit',
+				authorId: user.id,
+				visitReportId: report.id,
+				odometerKm: input.odometerKm ?? null,
+				notes: VISIT_ACTION_LABEL[action]
 			});
 		}
 		if (input.idleAfterMbar !== undefined) {
-			await Reading.create({ vehicleId: vehicle.id, takenAt: new Date(at + 60_000), deltaPMbar: input.idleAfterMbar, condition: 'idle', source: 'visit', authorId: user.id, odometerKm: input.odometerKm ?? null });
+			await Reading.create({
+				vehicleId: vehicle.id,
+				takenAt: new Date(at + 60_000),
+				deltaPMbar: input.idleAfterMbar,
+				condition: 'idle',
+				source: 'visit',
+				authorId: user.id,
+				odometerKm: input.odometerKm ?? null
+			});
 		}
 		const fromState = booking.state;
 		booking.state = 'done';
 		booking.sequence += 1;
 		await booking.save();
-		await BookingChange.create({ bookingId: booking.id, userId: user.id, at: now, action: 'done', fromState, toState: 'done', startsAt: booking.startsAt, endsAt: booking.endsAt, sequence: booking.sequence, reason: null });
-		await recordAudit(user, 'visit_report.create', 'visit_report', report.id, { bookingId: booking.id, actions: input.actions }, now);
+		await BookingChange.create({
+			bookingId: booking.id,
+			userId: user.id,
+			at: now,
+			action: 'done',
+			fromState,
+			toState: 'done',
+			startsAt: booking.startsAt,
+			endsAt: booking.endsAt,
+			sequence: booking.sequence,
+			reason: null
+		});
+		await recordAudit(
+			user,
+			'visit_report.create',
+			'visit_report',
+			report.id,
+			{ bookingId: booking.id, actions: input.actions },
+			now
+		);
 		return report.id;
 	});
 	const report = await VisitReport.findByPk(reportId);
@@ -140,7 +223,12 @@ export async function createVisitReport(user: SessionUser, bookingId: number, in
 }
 
 async function viewOf(r: VisitReport): Promise<VisitReportView> {
-	const actionsJson = (r.actions ?? {}) as { done?: VisitAction[]; sensorTestId?: number | null; idleBeforeMbar?: number | null; idleAfterMbar?: number | null };
+	const actionsJson = (r.actions ?? {}) as {
+		done?: VisitAction[];
+		sensorTestId?: number | null;
+		idleBeforeMbar?: number | null;
+		idleAfterMbar?: number | null;
+	};
 	const [vehicle, workshop, author, signer, test, booking] = await Promise.all([
 		Vehicle.findByPk(r.vehicleId, { attributes: ['registration'] }),
 		Organisation.findByPk(r.workshopId, { attributes: ['name'] }),
@@ -159,36 +247,63 @@ async function viewOf(r: VisitReport): Promise<VisitReportView> {
 		author: author?.name ?? '',
 		visitedAt: r.visitedAt,
 		findings: r.findings,
-		actions: (actionsJson.done ?? []).map((action) => ({ action, label: VISIT_ACTION_LABEL[action] ?? action })),
+		actions: (actionsJson.done ?? []).map((action) => ({
+			action,
+			label: VISIT_ACTION_LABEL[action] ?? action
+		})),
 		readings: [
-			...(actionsJson.idleBeforeMbar != null ? [{ label: 'Δp at idle before the work', mbar: actionsJson.idleBeforeMbar }] : []),
-			...(actionsJson.idleAfterMbar != null ? [{ label: 'Δp at idle after the work', mbar: actionsJson.idleAfterMbar }] : [])
+			...(actionsJson.idleBeforeMbar != null
+				? [{ label: 'Δp at idle before the work', mbar: actionsJson.idleBeforeMbar }]
+				: []),
+			...(actionsJson.idleAfterMbar != null
+				? [{ label: 'Δp at idle after the work', mbar: actionsJson.idleAfterMbar }]
+				: [])
 		],
-		sensorTest: test ? { id: test.id, kind: test.kind, verdict: test.verdict, testedAt: test.testedAt } : null,
-		rootCause: ROOT_CAUSE_FIELDS.filter((k) => rootCause[k]).map((k) => ({ label: ROOT_CAUSE_LABEL[k], text: rootCause[k] })),
+		sensorTest: test
+			? { id: test.id, kind: test.kind, verdict: test.verdict, testedAt: test.testedAt }
+			: null,
+		rootCause: ROOT_CAUSE_FIELDS.filter((k) => rootCause[k]).map((k) => ({
+			label: ROOT_CAUSE_LABEL[k],
+			text: rootCause[k]
+		})),
 		signedOffAt: r.signedOffAt,
 		signedOffBy: signer?.name ?? null,
-		visitKindLabel: booking ? (VISIT_KIND_LABEL[booking.visitKind as VisitKind] ?? booking.visitKind) : null
+		visitKindLabel: booking
+			? (VISIT_KIND_LABEL[booking.visitKind as VisitKind] ?? booking.visitKind)
+			: null
 	};
 }
 
 /** A report this person may see: of a van in their scope (fleet: own vans; workshop: contracted fleets). */
-export async function getVisitReport(user: SessionUser, reportId: number): Promise<VisitReportView> {
+export async function getVisitReport(
+	user: SessionUser,
+	reportId: number
+): Promise<VisitReportView> {
 	const r = await VisitReport.findByPk(reportId);
 	if (!r) throw new NotFoundError('That visit report');
-	const visible = await Vehicle.count({ where: { [Op.and]: [await vehicleScope(user), { id: r.vehicleId }] } });
+	const visible = await Vehicle.count({
+		where: { [Op.and]: [await vehicleScope(user), { id: r.vehicleId }] }
+	});
 	if (!visible) throw new NotFoundError('That visit report');
 	return viewOf(r);
 }
 
-export async function getReportForBooking(user: SessionUser, bookingId: number): Promise<VisitReportView | null> {
+export async function getReportForBooking(
+	user: SessionUser,
+	bookingId: number
+): Promise<VisitReportView | null> {
 	const r = await VisitReport.findOne({ where: { bookingId }, order: [['id', 'DESC']] });
 	return r ? getVisitReport(user, r.id) : null;
 }
 
 /** The van's sensor tests to attach to a report (newest first). */
 export async function reportFormTests(vehicleId: number) {
-	const tests = await SensorTest.findAll({ where: { vehicleId }, order: [['testedAt', 'DESC']], limit: 20, attributes: ['id', 'kind', 'verdict', 'testedAt'] });
+	const tests = await SensorTest.findAll({
+		where: { vehicleId },
+		order: [['testedAt', 'DESC']],
+		limit: 20,
+		attributes: ['id', 'kind', 'verdict', 'testedAt']
+	});
 	return tests.map((t) => ({ id: t.id, kind: t.kind, verdict: t.verdict, testedAt: t.testedAt }));
 }
 
@@ -197,7 +312,10 @@ async function mailReport(reportId: number, now: Date): Promise<void> {
 	if (!r) return;
 	const view = await viewOf(r);
 	const vehicle = await Vehicle.findByPk(r.vehicleId);
-	const managers = await User.findAll({ where: { organisationId: vehicle!.organisationId, role: 'fleet_manager', active: true }, order: [['id', 'ASC']] });
+	const managers = await User.findAll({
+		where: { organisationId: vehicle!.organisationId, role: 'fleet_manager', active: true },
+		order: [['id', 'ASC']]
+	});
 	const subject = `Visit report for ${view.registration} from ${view.workshopName}`;
 	for (const person of managers) {
 		const link = `${publicUrl()}/fleet/reports/${r.id}`;
@@ -217,7 +335,16 @@ async function mailReport(reportId: number, now: Date): Promise<void> {
 				recipient: person.email,
 				subject,
 				text: lines.join('\n'),
-				html: frameHtml(subject, lines.filter(Boolean).slice(0, -1).map((l) => `<p>${escapeHtml(l)}</p>`).join('') + buttonHtml(link, 'Read the report') + `<p style="font-size:14px">${escapeHtml(`Safety: ${VISIT_CAUTIONS}`)}</p>`),
+				html: frameHtml(
+					subject,
+					lines
+						.filter(Boolean)
+						.slice(0, -1)
+						.map((l) => `<p>${escapeHtml(l)}</p>`)
+						.join('') +
+						buttonHtml(link, 'Read the report') +
+						`<p style="font-size:14px">${escapeHtml(`Safety: ${VISIT_CAUTIONS}`)}</p>`
+				),
 				dedupeKey: `visit-report:${r.id}:${person.id}`
 			},
 			now
@@ -228,11 +355,18 @@ async function mailReport(reportId: number, now: Date): Promise<void> {
 
 /** A van's bookings and the reports written for them, for the van's page. */
 export async function listVanVisits(user: SessionUser, vehicleId: number) {
-	const visible = await Vehicle.count({ where: { [Op.and]: [await vehicleScope(user), { id: vehicleId }] } });
+	const visible = await Vehicle.count({
+		where: { [Op.and]: [await vehicleScope(user), { id: vehicleId }] }
+	});
 	if (!visible) throw new NotFoundError('That van');
 	const [bookings, reports] = await Promise.all([
 		listBookings(user, { vehicleId }),
-		VisitReport.findAll({ where: { vehicleId }, attributes: ['id', 'bookingId'], order: [['id', 'ASC']], raw: true })
+		VisitReport.findAll({
+			where: { vehicleId },
+			attributes: ['id', 'bookingId'],
+			order: [['id', 'ASC']],
+			raw: true
+		})
 	]);
 	return { bookings, reports: reports.map((r) => ({ id: r.id, bookingId: r.bookingId })) };
 }

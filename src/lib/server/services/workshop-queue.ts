@@ -21,28 +21,56 @@ export async function workshopQueue(user: SessionUser, query: BoardQueryInput, n
 	const since = new Date(now.getTime() - 28 * DAY_MS);
 	const [inputs, trips, tests, vans] = await Promise.all([
 		loadEngineInputs(ids),
-		Trip.findAll({ where: { vehicleId: { [Op.in]: ids }, startedAt: { [Op.gte]: since, [Op.lte]: now } }, raw: true }),
-		SensorTest.findAll({ where: { vehicleId: { [Op.in]: ids } }, order: [['testedAt', 'DESC']], raw: true }),
-		Vehicle.findAll({ where: { id: { [Op.in]: ids } }, attributes: ['id', 'fuel', 'oilGrade'], raw: true })
+		Trip.findAll({
+			where: { vehicleId: { [Op.in]: ids }, startedAt: { [Op.gte]: since, [Op.lte]: now } },
+			raw: true
+		}),
+		SensorTest.findAll({
+			where: { vehicleId: { [Op.in]: ids } },
+			order: [['testedAt', 'DESC']],
+			raw: true
+		}),
+		Vehicle.findAll({
+			where: { id: { [Op.in]: ids } },
+			attributes: ['id', 'fuel', 'oilGrade'],
+			raw: true
+		})
 	]);
 	const items = board.items.map((van) => {
 		const input = inputs.get(van.id)!;
 		const vanTrips = trips
 			.filter((t) => t.vehicleId === van.id)
-			.map((t) => ({ start: new Date(t.startedAt), end: new Date(t.endedAt), distanceKm: t.distanceKm, idleMinutes: t.idleMinutes, meanSpeedKmh: t.meanSpeedKmh ?? 0 }));
+			.map((t) => ({
+				start: new Date(t.startedAt),
+				end: new Date(t.endedAt),
+				distanceKm: t.distanceKm,
+				idleMinutes: t.idleMinutes,
+				meanSpeedKmh: t.meanSpeedKmh ?? 0
+			}));
 		const usage = vanTrips.length ? summariseUsage(vanTrips, now) : null;
 		const profile = vans.find((v) => v.id === van.id);
 		const hints = input.readings.length
-			? findRootCauseHints(forecastCrossing({ readings: input.readings, events: input.events, now }), usage, {
-					fuel: profile?.fuel,
-					oilSpec: profile?.oilGrade ?? undefined
-				})
+			? findRootCauseHints(
+					forecastCrossing({ readings: input.readings, events: input.events, now }),
+					usage,
+					{
+						fuel: profile?.fuel,
+						oilSpec: profile?.oilGrade ?? undefined
+					}
+				)
 			: [];
 		const latest = tests.find((t) => t.vehicleId === van.id);
 		return {
 			...van,
 			checks: hints.map((h) => ({ title: h.title, restsOn: h.restsOn })),
-			latestTest: latest ? { id: latest.id, kind: latest.kind, verdict: latest.verdict, testedAt: new Date(latest.testedAt).toISOString() } : null
+			latestTest: latest
+				? {
+						id: latest.id,
+						kind: latest.kind,
+						verdict: latest.verdict,
+						testedAt: new Date(latest.testedAt).toISOString()
+					}
+				: null
 		};
 	});
 	return { ...board, items };

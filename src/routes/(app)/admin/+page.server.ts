@@ -1,10 +1,21 @@
 import { fail, redirect } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/auth/guards';
 import { parseForm } from '$lib/server/http/forms';
-import { changePerson, createContract, createOrganisation, endContract, getAdminOverview } from '$lib/server/services/admin';
+import {
+	changePerson,
+	createContract,
+	createOrganisation,
+	endContract,
+	getAdminOverview
+} from '$lib/server/services/admin';
 import { ValidationError } from '$lib/server/services/errors';
 import { orHttpError } from '$lib/server/http/errors';
-import { changePersonSchema, endContractSchema, newContractSchema, newOrganisationSchema } from '$lib/validation/admin';
+import {
+	changePersonSchema,
+	endContractSchema,
+	newContractSchema,
+	newOrganisationSchema
+} from '$lib/validation/admin';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ url }) => {
@@ -17,7 +28,8 @@ async function attempt(formName: string, work: () => Promise<unknown>, done: str
 	try {
 		await orHttpError(work);
 	} catch (err) {
-		if (err instanceof ValidationError) return fail(400, { form: formName, errors: err.fields, message: err.message });
+		if (err instanceof ValidationError)
+			return fail(400, { form: formName, errors: err.fields, message: err.message });
 		throw err;
 	}
 	redirect(303, `/admin?done=${encodeURIComponent(done)}`);
@@ -28,7 +40,11 @@ export const actions: Actions = {
 		const user = requireRole('admin');
 		const parsed = await parseForm(newOrganisationSchema, request);
 		if (!parsed.ok) return fail(400, { form: 'createOrganisation', ...parsed.failure.data });
-		return attempt('createOrganisation', () => createOrganisation(user, parsed.data), `${parsed.data.name} added.`);
+		return attempt(
+			'createOrganisation',
+			() => createOrganisation(user, parsed.data),
+			`${parsed.data.name} added.`
+		);
 	},
 	createContract: async ({ request }) => {
 		const user = requireRole('admin');

@@ -6,7 +6,10 @@ import type { PageServerLoad } from './$types';
 export const load: PageServerLoad = async () => {
 	const user = requireRole('driver');
 	const now = new Date();
-	const [vans, advice] = await Promise.all([listDriverVans(user, now), adviceForDriver(user.id, now)]);
+	const [vans, advice] = await Promise.all([
+		listDriverVans(user, now),
+		adviceForDriver(user.id, now)
+	]);
 	return {
 		vans: vans.map((v) => {
 			const a = advice.find((x) => x.vehicleId === v.id);

@@ -6,6 +6,10 @@ import type { PageServerLoad } from './$types';
 export const load: PageServerLoad = async ({ url }) => {
 	const user = requireRole('fleet_manager');
 	const query = boardQuerySchema.parse(Object.fromEntries(url.searchParams));
-	const [board, summary, depots] = await Promise.all([listBoard(user, query), boardSummary(user, query, new Date()), visibleDepots(user)]);
+	const [board, summary, depots] = await Promise.all([
+		listBoard(user, query),
+		boardSummary(user, query, new Date()),
+		visibleDepots(user)
+	]);
 	return { board, summary, depots, params: url.searchParams.toString() };
 };

@@ -8,6 +8,10 @@ export const load: PageServerLoad = async ({ url }) => {
 	const user = requireRole('workshop');
 	const query = boardQuerySchema.parse(Object.fromEntries(url.searchParams));
 	const now = new Date();
-	const [queue, summary, depots] = await Promise.all([workshopQueue(user, query, now), boardSummary(user, query, now), visibleDepots(user)]);
+	const [queue, summary, depots] = await Promise.all([
+		workshopQueue(user, query, now),
+		boardSummary(user, query, now),
+		visibleDepots(user)
+	]);
 	return { queue, summary, depots, status: query.status ?? null };
 };

@@ -10,7 +10,10 @@ import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = ({ locals, url }) => {
 	if (locals.user) redirect(303, HOME_BY_ROLE[locals.user.role]);
-	return { redirectTo: safeRedirect(url.searchParams.get('redirectTo')), passwordSet: url.searchParams.get('password') === 'set' };
+	return {
+		redirectTo: safeRedirect(url.searchParams.get('redirectTo')),
+		passwordSet: url.searchParams.get('password') === 'set'
+	};
 };
 
 export const actions: Actions = {
@@ -32,7 +35,11 @@ export const actions: Actions = {
 			throw err;
 		}
 		if (userId === null) {
-			return fail(400, { values: { email }, errors: {} as FieldErrors, message: 'That e-mail and password do not match an account.' });
+			return fail(400, {
+				values: { email },
+				errors: {} as FieldErrors,
+				message: 'That e-mail and password do not match an account.'
+			});
 		}
 		const session = await lucia.createSession(userId, {});
 		const cookie = lucia.createSessionCookie(session.id);

@@ -4,7 +4,9 @@ import type { Actions, PageServerLoad } from './$types';
 
 // Public on purpose: the signed token is the permission. Reading the page changes nothing
 // (link scanners open links); only the button does.
-export const load: PageServerLoad = ({ params }) => ({ valid: verifyUnsubscribeToken(params.token) !== null });
+export const load: PageServerLoad = ({ params }) => ({
+	valid: verifyUnsubscribeToken(params.token) !== null
+});
 
 export const actions: Actions = {
 	default: async ({ params }) => {

@@ -1,8 +1,18 @@
-import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import {
+	DataTypes,
+	Model,
+	type CreationOptional,
+	type InferAttributes,
+	type InferCreationAttributes,
+	type Sequelize
+} from 'sequelize';
 
 export type ActionPurpose = 'invite' | 'reset';
 
-export class ActionToken extends Model<InferAttributes<ActionToken>, InferCreationAttributes<ActionToken>> {
+export class ActionToken extends Model<
+	InferAttributes<ActionToken>,
+	InferCreationAttributes<ActionToken>
+> {
 	declare id: CreationOptional<number>;
 	declare userId: number;
 	declare purpose: ActionPurpose;

@@ -1,4 +1,11 @@
-import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import {
+	DataTypes,
+	Model,
+	type CreationOptional,
+	type InferAttributes,
+	type InferCreationAttributes,
+	type Sequelize
+} from 'sequelize';
 import { BOOKING_STATES, type BookingState } from '../../../domain/vocabulary';
 
 /** A preventive visit, from request to done; uid and sequence feed the calendar invitations. */
@@ -28,7 +35,12 @@ export class Booking extends Model<InferAttributes<Booking>, InferCreationAttrib
 				workshopId: { type: DataTypes.INTEGER, allowNull: false },
 				requestedById: { type: DataTypes.INTEGER, allowNull: false },
 				visitKind: { type: DataTypes.STRING(32), allowNull: false },
-				state: { type: DataTypes.STRING(16), allowNull: false, defaultValue: 'requested', validate: { isIn: [BOOKING_STATES] } },
+				state: {
+					type: DataTypes.STRING(16),
+					allowNull: false,
+					defaultValue: 'requested',
+					validate: { isIn: [BOOKING_STATES] }
+				},
 				startsAt: { type: DataTypes.DATE, allowNull: true },
 				endsAt: { type: DataTypes.DATE, allowNull: true },
 				windowFrom: { type: DataTypes.DATE, allowNull: true },

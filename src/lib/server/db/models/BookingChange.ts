@@ -1,7 +1,17 @@
-import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import {
+	DataTypes,
+	Model,
+	type CreationOptional,
+	type InferAttributes,
+	type InferCreationAttributes,
+	type Sequelize
+} from 'sequelize';
 
 /** One change to a booking: who, when, what it became and why. */
-export class BookingChange extends Model<InferAttributes<BookingChange>, InferCreationAttributes<BookingChange>> {
+export class BookingChange extends Model<
+	InferAttributes<BookingChange>,
+	InferCreationAttributes<BookingChange>
+> {
 	declare id: CreationOptional<number>;
 	declare bookingId: number;
 	declare userId: number | null;

@@ -1,7 +1,17 @@
-import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import {
+	DataTypes,
+	Model,
+	type CreationOptional,
+	type InferAttributes,
+	type InferCreationAttributes,
+	type Sequelize
+} from 'sequelize';
 
 /** One bay on one day held by a booking; unique per (workshop, day, bay). */
-export class BookingSlot extends Model<InferAttributes<BookingSlot>, InferCreationAttributes<BookingSlot>> {
+export class BookingSlot extends Model<
+	InferAttributes<BookingSlot>,
+	InferCreationAttributes<BookingSlot>
+> {
 	declare id: CreationOptional<number>;
 	declare bookingId: number;
 	declare workshopId: number;

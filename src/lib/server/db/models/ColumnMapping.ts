@@ -1,7 +1,17 @@
-import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import {
+	DataTypes,
+	Model,
+	type CreationOptional,
+	type InferAttributes,
+	type InferCreationAttributes,
+	type Sequelize
+} from 'sequelize';
 
 /** The column mapping an organisation last used for a kind of import, offered again next time. */
-export class ColumnMapping extends Model<InferAttributes<ColumnMapping>, InferCreationAttributes<ColumnMapping>> {
+export class ColumnMapping extends Model<
+	InferAttributes<ColumnMapping>,
+	InferCreationAttributes<ColumnMapping>
+> {
 	declare id: CreationOptional<number>;
 	declare organisationId: number;
 	declare kind: string;

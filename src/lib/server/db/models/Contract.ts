@@ -1,4 +1,11 @@
-import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import {
+	DataTypes,
+	Model,
+	type CreationOptional,
+	type InferAttributes,
+	type InferCreationAttributes,
+	type Sequelize
+} from 'sequelize';
 
 /** A fleet contracts a workshop from one date to another (open-ended when endsOn is null). */
 export class Contract extends Model<InferAttributes<Contract>, InferCreationAttributes<Contract>> {

@@ -1,4 +1,11 @@
-import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import {
+	DataTypes,
+	Model,
+	type CreationOptional,
+	type InferAttributes,
+	type InferCreationAttributes,
+	type Sequelize
+} from 'sequelize';
 
 /** One computed forecast; a vehicle keeps its history, the newest row is its current view. */
 export class Forecast extends Model<InferAttributes<Forecast>, InferCreationAttributes<Forecast>> {

@@ -1,7 +1,17 @@
-import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import {
+	DataTypes,
+	Model,
+	type CreationOptional,
+	type InferAttributes,
+	type InferCreationAttributes,
+	type Sequelize
+} from 'sequelize';
 
 /** One CSV import or API batch; undoing it removes every row that carries its id. */
-export class ImportBatch extends Model<InferAttributes<ImportBatch>, InferCreationAttributes<ImportBatch>> {
+export class ImportBatch extends Model<
+	InferAttributes<ImportBatch>,
+	InferCreationAttributes<ImportBatch>
+> {
 	declare id: CreationOptional<number>;
 	declare organisationId: number;
 	declare kind: 'readings' | 'trips' | 'vehicles' | 'events';

@@ -1,4 +1,11 @@
-import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import {
+	DataTypes,
+	Model,
+	type CreationOptional,
+	type InferAttributes,
+	type InferCreationAttributes,
+	type Sequelize
+} from 'sequelize';
 
 /** Who may run a job right now; a lease expires if its holder dies. */
 export class JobLease extends Model<InferAttributes<JobLease>, InferCreationAttributes<JobLease>> {

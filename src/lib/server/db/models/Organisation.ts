@@ -1,7 +1,17 @@
-import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import {
+	DataTypes,
+	Model,
+	type CreationOptional,
+	type InferAttributes,
+	type InferCreationAttributes,
+	type Sequelize
+} from 'sequelize';
 import { ORGANISATION_KINDS, type OrganisationKind } from '../../../domain/vocabulary';
 
-export class Organisation extends Model<InferAttributes<Organisation>, InferCreationAttributes<Organisation>> {
+export class Organisation extends Model<
+	InferAttributes<Organisation>,
+	InferCreationAttributes<Organisation>
+> {
 	declare id: CreationOptional<number>;
 	declare name: string;
 	declare kind: OrganisationKind;
@@ -14,7 +24,11 @@ export class Organisation extends Model<InferAttributes<Organisation>, InferCrea
 			{
 				id: { type: DataTypes.INTEGER, autoIncrement: true, primaryKey: true },
 				name: { type: DataTypes.STRING(160), allowNull: false },
-				kind: { type: DataTypes.STRING(16), allowNull: false, validate: { isIn: [ORGANISATION_KINDS] } },
+				kind: {
+					type: DataTypes.STRING(16),
+					allowNull: false,
+					validate: { isIn: [ORGANISATION_KINDS] }
+				},
 				timeZone: { type: DataTypes.STRING(64), allowNull: false, defaultValue: 'Europe/London' },
 				createdAt: DataTypes.DATE,
 				updatedAt: DataTypes.DATE

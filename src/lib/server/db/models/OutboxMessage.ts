@@ -1,7 +1,17 @@
-import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import {
+	DataTypes,
+	Model,
+	type CreationOptional,
+	type InferAttributes,
+	type InferCreationAttributes,
+	type Sequelize
+} from 'sequelize';
 
 /** A message waiting to be sent, or sent; the dedupe key makes a rerun queue nothing twice. */
-export class OutboxMessage extends Model<InferAttributes<OutboxMessage>, InferCreationAttributes<OutboxMessage>> {
+export class OutboxMessage extends Model<
+	InferAttributes<OutboxMessage>,
+	InferCreationAttributes<OutboxMessage>
+> {
 	declare id: CreationOptional<number>;
 	declare recipient: string;
 	declare subject: string;

@@ -1,5 +1,17 @@
-import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
-import { READING_SOURCES, TEST_CONDITIONS, type ReadingSource, type TestCondition } from '../../../domain/vocabulary';
+import {
+	DataTypes,
+	Model,
+	type CreationOptional,
+	type InferAttributes,
+	type InferCreationAttributes,
+	type Sequelize
+} from 'sequelize';
+import {
+	READING_SOURCES,
+	TEST_CONDITIONS,
+	type ReadingSource,
+	type TestCondition
+} from '../../../domain/vocabulary';
 
 /** One Δp reading. Stored in mbar whatever unit it arrived in. */
 export class Reading extends Model<InferAttributes<Reading>, InferCreationAttributes<Reading>> {
@@ -31,12 +43,20 @@ export class Reading extends Model<InferAttributes<Reading>, InferCreationAttrib
 				odometerKm: { type: DataTypes.DOUBLE, allowNull: true },
 				deltaPMbar: { type: DataTypes.DOUBLE, allowNull: false },
 				rawVolts: { type: DataTypes.DOUBLE, allowNull: true },
-				condition: { type: DataTypes.STRING(16), allowNull: false, validate: { isIn: [TEST_CONDITIONS] } },
+				condition: {
+					type: DataTypes.STRING(16),
+					allowNull: false,
+					validate: { isIn: [TEST_CONDITIONS] }
+				},
 				rpm: { type: DataTypes.INTEGER, allowNull: true },
 				airMassFlowKgH: { type: DataTypes.DOUBLE, allowNull: true },
 				exhaustTempC: { type: DataTypes.DOUBLE, allowNull: true },
 				ambientPressureKpa: { type: DataTypes.DOUBLE, allowNull: true },
-				source: { type: DataTypes.STRING(16), allowNull: false, validate: { isIn: [READING_SOURCES] } },
+				source: {
+					type: DataTypes.STRING(16),
+					allowNull: false,
+					validate: { isIn: [READING_SOURCES] }
+				},
 				importBatchId: { type: DataTypes.INTEGER, allowNull: true },
 				authorId: { type: DataTypes.INTEGER, allowNull: true },
 				clientReadingId: { type: DataTypes.STRING(80), allowNull: true },

@@ -1,7 +1,17 @@
-import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import {
+	DataTypes,
+	Model,
+	type CreationOptional,
+	type InferAttributes,
+	type InferCreationAttributes,
+	type Sequelize
+} from 'sequelize';
 
 /** A static test or vacuum range check done on a van, with the engine's result. */
-export class SensorTest extends Model<InferAttributes<SensorTest>, InferCreationAttributes<SensorTest>> {
+export class SensorTest extends Model<
+	InferAttributes<SensorTest>,
+	InferCreationAttributes<SensorTest>
+> {
 	declare id: CreationOptional<number>;
 	declare vehicleId: number;
 	declare kind: 'static' | 'vacuum';

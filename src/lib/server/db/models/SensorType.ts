@@ -1,7 +1,17 @@
-import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import {
+	DataTypes,
+	Model,
+	type CreationOptional,
+	type InferAttributes,
+	type InferCreationAttributes,
+	type Sequelize
+} from 'sequelize';
 
 /** A Δp sensor's linear transfer function: zeroVolts at 0 mbar, fullScaleVolts at fullScaleMbar. */
-export class SensorType extends Model<InferAttributes<SensorType>, InferCreationAttributes<SensorType>> {
+export class SensorType extends Model<
+	InferAttributes<SensorType>,
+	InferCreationAttributes<SensorType>
+> {
 	declare id: CreationOptional<number>;
 	declare name: string;
 	declare zeroVolts: number;

@@ -1,4 +1,10 @@
-import { DataTypes, Model, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import {
+	DataTypes,
+	Model,
+	type InferAttributes,
+	type InferCreationAttributes,
+	type Sequelize
+} from 'sequelize';
 
 export class Session extends Model<InferAttributes<Session>, InferCreationAttributes<Session>> {
 	declare id: string;

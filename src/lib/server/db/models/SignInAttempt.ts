@@ -1,7 +1,17 @@
-import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import {
+	DataTypes,
+	Model,
+	type CreationOptional,
+	type InferAttributes,
+	type InferCreationAttributes,
+	type Sequelize
+} from 'sequelize';
 
 /** One failed sign-in, kept in the database so throttling holds across app instances. */
-export class SignInAttempt extends Model<InferAttributes<SignInAttempt>, InferCreationAttributes<SignInAttempt>> {
+export class SignInAttempt extends Model<
+	InferAttributes<SignInAttempt>,
+	InferCreationAttributes<SignInAttempt>
+> {
 	declare id: CreationOptional<number>;
 	declare accountKey: string;
 	declare addressKey: string;

@@ -1,5 +1,17 @@
-import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
-import { PRESSURE_UNITS, ROLES, type PressureUnitCode, type Role } from '../../../domain/vocabulary';
+import {
+	DataTypes,
+	Model,
+	type CreationOptional,
+	type InferAttributes,
+	type InferCreationAttributes,
+	type Sequelize
+} from 'sequelize';
+import {
+	PRESSURE_UNITS,
+	ROLES,
+	type PressureUnitCode,
+	type Role
+} from '../../../domain/vocabulary';
 
 export class User extends Model<InferAttributes<User>, InferCreationAttributes<User>> {
 	declare id: CreationOptional<number>;
@@ -29,11 +41,20 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
 				name: { type: DataTypes.STRING(120), allowNull: false },
 				passwordHash: { type: DataTypes.STRING(255), allowNull: true },
 				role: { type: DataTypes.STRING(20), allowNull: false, validate: { isIn: [ROLES] } },
-				unitPreference: { type: DataTypes.STRING(8), allowNull: false, defaultValue: 'mbar', validate: { isIn: [PRESSURE_UNITS] } },
+				unitPreference: {
+					type: DataTypes.STRING(8),
+					allowNull: false,
+					defaultValue: 'mbar',
+					validate: { isIn: [PRESSURE_UNITS] }
+				},
 				locale: { type: DataTypes.STRING(16), allowNull: false, defaultValue: 'en-GB' },
 				timeZone: { type: DataTypes.STRING(64), allowNull: false, defaultValue: 'Europe/London' },
 				notifyDigest: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
-				notifyStatuses: { type: DataTypes.JSON, allowNull: false, defaultValue: ['over_line', 'crossing_soon'] },
+				notifyStatuses: {
+					type: DataTypes.JSON,
+					allowNull: false,
+					defaultValue: ['over_line', 'crossing_soon']
+				},
 				crossingWindowDays: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 30 },
 				adviceOptOut: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
 				active: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },

@@ -1,4 +1,11 @@
-import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import {
+	DataTypes,
+	Model,
+	type CreationOptional,
+	type InferAttributes,
+	type InferCreationAttributes,
+	type Sequelize
+} from 'sequelize';
 import { FUELS, type Fuel } from '../../../domain/vocabulary';
 
 export class Vehicle extends Model<InferAttributes<Vehicle>, InferCreationAttributes<Vehicle>> {
@@ -33,7 +40,12 @@ export class Vehicle extends Model<InferAttributes<Vehicle>, InferCreationAttrib
 				makeModel: { type: DataTypes.STRING(120), allowNull: true },
 				engineDisplacementCc: { type: DataTypes.INTEGER, allowNull: true },
 				emissionClass: { type: DataTypes.STRING(16), allowNull: true },
-				fuel: { type: DataTypes.STRING(24), allowNull: false, defaultValue: 'en590_diesel', validate: { isIn: [FUELS] } },
+				fuel: {
+					type: DataTypes.STRING(24),
+					allowNull: false,
+					defaultValue: 'en590_diesel',
+					validate: { isIn: [FUELS] }
+				},
 				oilGrade: { type: DataTypes.STRING(32), allowNull: true },
 				sensorTypeId: { type: DataTypes.INTEGER, allowNull: true },
 				referenceFlowM3h: { type: DataTypes.DOUBLE, allowNull: true },

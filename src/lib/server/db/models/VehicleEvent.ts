@@ -1,8 +1,18 @@
-import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import {
+	DataTypes,
+	Model,
+	type CreationOptional,
+	type InferAttributes,
+	type InferCreationAttributes,
+	type Sequelize
+} from 'sequelize';
 import { EVENT_KINDS, type EventKind } from '../../../domain/vocabulary';
 
 /** Something that happened to the filter: a regeneration, a cleaning, a replacement, a repair. */
-export class VehicleEvent extends Model<InferAttributes<VehicleEvent>, InferCreationAttributes<VehicleEvent>> {
+export class VehicleEvent extends Model<
+	InferAttributes<VehicleEvent>,
+	InferCreationAttributes<VehicleEvent>
+> {
 	declare id: CreationOptional<number>;
 	declare vehicleId: number;
 	declare occurredAt: Date;

@@ -1,7 +1,17 @@
-import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import {
+	DataTypes,
+	Model,
+	type CreationOptional,
+	type InferAttributes,
+	type InferCreationAttributes,
+	type Sequelize
+} from 'sequelize';
 
 /** A van's current forecast, kept in step by the forecast service; the board reads only this. */
-export class VehicleStatus extends Model<InferAttributes<VehicleStatus>, InferCreationAttributes<VehicleStatus>> {
+export class VehicleStatus extends Model<
+	InferAttributes<VehicleStatus>,
+	InferCreationAttributes<VehicleStatus>
+> {
 	declare vehicleId: number;
 	declare status: string;
 	declare urgency: number;

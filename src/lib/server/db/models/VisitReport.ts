@@ -1,7 +1,17 @@
-import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import {
+	DataTypes,
+	Model,
+	type CreationOptional,
+	type InferAttributes,
+	type InferCreationAttributes,
+	type Sequelize
+} from 'sequelize';
 
 /** What the workshop found and did at a visit; its actions become events the forecast reads. */
-export class VisitReport extends Model<InferAttributes<VisitReport>, InferCreationAttributes<VisitReport>> {
+export class VisitReport extends Model<
+	InferAttributes<VisitReport>,
+	InferCreationAttributes<VisitReport>
+> {
 	declare id: CreationOptional<number>;
 	declare vehicleId: number;
 	declare workshopId: number;

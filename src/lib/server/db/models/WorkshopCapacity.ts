@@ -1,7 +1,17 @@
-import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import {
+	DataTypes,
+	Model,
+	type CreationOptional,
+	type InferAttributes,
+	type InferCreationAttributes,
+	type Sequelize
+} from 'sequelize';
 
 /** A workshop's bays per day and opening hours (wall-clock times in `timeZone`). */
-export class WorkshopCapacity extends Model<InferAttributes<WorkshopCapacity>, InferCreationAttributes<WorkshopCapacity>> {
+export class WorkshopCapacity extends Model<
+	InferAttributes<WorkshopCapacity>,
+	InferCreationAttributes<WorkshopCapacity>
+> {
 	declare workshopId: number;
 	declare baysPerDay: number;
 	declare opensAt: string;

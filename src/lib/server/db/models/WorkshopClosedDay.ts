@@ -1,7 +1,17 @@
-import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import {
+	DataTypes,
+	Model,
+	type CreationOptional,
+	type InferAttributes,
+	type InferCreationAttributes,
+	type Sequelize
+} from 'sequelize';
 
 /** A day a workshop is closed (holiday, stock-take), as its local date 'YYYY-MM-DD'. */
-export class WorkshopClosedDay extends Model<InferAttributes<WorkshopClosedDay>, InferCreationAttributes<WorkshopClosedDay>> {
+export class WorkshopClosedDay extends Model<
+	InferAttributes<WorkshopClosedDay>,
+	InferCreationAttributes<WorkshopClosedDay>
+> {
 	declare id: CreationOptional<number>;
 	declare workshopId: number;
 	declare day: string;

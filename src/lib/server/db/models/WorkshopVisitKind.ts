@@ -1,7 +1,17 @@
-import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import {
+	DataTypes,
+	Model,
+	type CreationOptional,
+	type InferAttributes,
+	type InferCreationAttributes,
+	type Sequelize
+} from 'sequelize';
 
 /** A kind of visit a workshop offers and how long it takes. */
-export class WorkshopVisitKind extends Model<InferAttributes<WorkshopVisitKind>, InferCreationAttributes<WorkshopVisitKind>> {
+export class WorkshopVisitKind extends Model<
+	InferAttributes<WorkshopVisitKind>,
+	InferCreationAttributes<WorkshopVisitKind>
+> {
 	declare id: CreationOptional<number>;
 	declare workshopId: number;
 	declare kind: string;

@@ -33,10 +33,19 @@ export function renderDigest(input: {
 	settingsLink: string;
 }) {
 	const day = (d: Date | null) =>
-		d ? new Intl.DateTimeFormat(input.locale, { day: 'numeric', month: 'short', year: 'numeric', timeZone: input.timeZone }).format(d) : '—';
+		d
+			? new Intl.DateTimeFormat(input.locale, {
+					day: 'numeric',
+					month: 'short',
+					year: 'numeric',
+					timeZone: input.timeZone
+				}).format(d)
+			: '—';
 	const p = (mbar: number | null) => (mbar === null ? '—' : formatPressure(mbar, input.unit));
 	const perWeek = (mbar: number | null) =>
-		mbar === null ? '—' : `${mbar >= 0 ? '+' : '−'}${formatPressure(Math.abs(mbar), input.unit)} per week`;
+		mbar === null
+			? '—'
+			: `${mbar >= 0 ? '+' : '−'}${formatPressure(Math.abs(mbar), input.unit)} per week`;
 	const worrying = input.vans.filter((v) => v.change !== 'recovered').length;
 	const subject =
 		worrying > 0

@@ -6,6 +6,7 @@ import type { PageServerLoad } from './$types';
 export const load: PageServerLoad = async () => {
 	requireRole('admin');
 	const messages = await listDevMailbox();
-	if (!messages) error(404, 'The development mailbox is only there while the local mail sink is in use.');
+	if (!messages)
+		error(404, 'The development mailbox is only there while the local mail sink is in use.');
 	return { messages };
 };

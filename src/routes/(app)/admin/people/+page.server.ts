@@ -6,7 +6,10 @@ import type { Actions, PageServerLoad } from './$types';
 export const load: PageServerLoad = async ({ url }) => {
 	const user = requireRole('admin');
 	const overview = await getAdminOverview(user);
-	return { organisations: overview.organisations.map((o) => ({ id: o.id, name: o.name })), invited: url.searchParams.get('invited') };
+	return {
+		organisations: overview.organisations.map((o) => ({ id: o.id, name: o.name })),
+		invited: url.searchParams.get('invited')
+	};
 };
 
 export const actions: Actions = {

@@ -19,7 +19,11 @@ export const load: PageServerLoad = async ({ params, url }) => {
 	const user = requireRole('fleet_manager');
 	const vehicleId = Number(params.vehicleId);
 	const [story, sensorTests, visits] = await orHttpError(() =>
-		Promise.all([getVanStory(user, vehicleId, { series: seriesParam(url) }), listSensorTests(user, vehicleId), listVanVisits(user, vehicleId)])
+		Promise.all([
+			getVanStory(user, vehicleId, { series: seriesParam(url) }),
+			listSensorTests(user, vehicleId),
+			listVanVisits(user, vehicleId)
+		])
 	);
 	return { story, sensorTests, visits, saved: url.searchParams.has('saved') };
 };

@@ -12,7 +12,9 @@ export const load: PageServerLoad = async ({ params, url }) => {
 	const series = url.searchParams.get('series');
 	const [story, sensorTests, visits] = await orHttpError(() =>
 		Promise.all([
-			getVanStory(user, vehicleId, { series: SERIES_KINDS.includes(series as SeriesKind) ? (series as SeriesKind) : undefined }),
+			getVanStory(user, vehicleId, {
+				series: SERIES_KINDS.includes(series as SeriesKind) ? (series as SeriesKind) : undefined
+			}),
 			listSensorTests(user, vehicleId),
 			listVanVisits(user, vehicleId)
 		])

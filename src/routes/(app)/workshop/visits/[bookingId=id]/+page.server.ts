@@ -3,10 +3,25 @@ import { requireRole } from '$lib/server/auth/guards';
 import { orHttpError } from '$lib/server/http/errors';
 import { parseForm } from '$lib/server/http/forms';
 import { orFormFailure } from '$lib/server/http/service-fail';
-import { cancelBooking, confirmBooking, declineBooking, getBooking, rescheduleBooking } from '$lib/server/services/bookings';
-import { createVisitReport, getReportForBooking, reportFormTests } from '$lib/server/services/visit-reports';
+import {
+	cancelBooking,
+	confirmBooking,
+	declineBooking,
+	getBooking,
+	rescheduleBooking
+} from '$lib/server/services/bookings';
+import {
+	createVisitReport,
+	getReportForBooking,
+	reportFormTests
+} from '$lib/server/services/visit-reports';
 import { fromLocal } from '$lib/server/services/bookings';
-import { cancelSchema, declineSchema, rescheduleSchema, visitReportSchema } from '$lib/validation/visits';
+import {
+	cancelSchema,
+	declineSchema,
+	rescheduleSchema,
+	visitReportSchema
+} from '$lib/validation/visits';
 import type { Actions, PageServerLoad } from './$types';
 
 const NOTICES: Record<string, string> = {
@@ -15,7 +30,8 @@ const NOTICES: Record<string, string> = {
 	rescheduled: 'The new time is sent; both sides have been e-mailed an updated invitation.',
 	declined: 'The request is declined; both sides have been e-mailed.',
 	cancelled: 'The visit is cancelled; both sides have been e-mailed a cancellation.',
-	reported: 'The visit report is saved, the van’s forecast is updated and the report is e-mailed to the fleet.'
+	reported:
+		'The visit report is saved, the van’s forecast is updated and the report is e-mailed to the fleet.'
 };
 
 export const load: PageServerLoad = async ({ params, url }) => {
@@ -23,11 +39,17 @@ export const load: PageServerLoad = async ({ params, url }) => {
 	const id = Number(params.bookingId);
 	const booking = await orHttpError(() => getBooking(user, id));
 	const notice = [...url.searchParams.keys()].map((k) => NOTICES[k]).find(Boolean) ?? null;
-	return { booking, notice, report: await getReportForBooking(user, id), tests: await reportFormTests(booking.vehicleId) };
+	return {
+		booking,
+		notice,
+		report: await getReportForBooking(user, id),
+		tests: await reportFormTests(booking.vehicleId)
+	};
 };
 
 const back = (id: string, what: string) => redirect(303, `/workshop/visits/${id}?${what}`);
-const tagged = <T extends { data: unknown }>(action: string, failure: T) => fail(400, { ...(failure.data as object), action });
+const tagged = <T extends { data: unknown }>(action: string, failure: T) =>
+	fail(400, { ...(failure.data as object), action });
 
 export const actions: Actions = {
 	confirm: async ({ params }) => {
@@ -40,7 +62,9 @@ export const actions: Actions = {
 		const user = requireRole('workshop');
 		const parsed = await parseForm(rescheduleSchema, request);
 		if (!parsed.ok) return tagged('reschedule', parsed.failure);
-		const result = await orFormFailure(parsed.values, () => rescheduleBooking(user, Number(params.bookingId), parsed.data));
+		const result = await orFormFailure(parsed.values, () =>
+			rescheduleBooking(user, Number(params.bookingId), parsed.data)
+		);
 		if (!result.ok) return tagged('reschedule', result.failure);
 		back(params.bookingId, 'rescheduled');
 	},
@@ -48,7 +72,9 @@ export const actions: Actions = {
 		const user = requireRole('workshop');
 		const parsed = await parseForm(declineSchema, request);
 		if (!parsed.ok) return tagged('decline', parsed.failure);
-		const result = await orFormFailure(parsed.values, () => declineBooking(user, Number(params.bookingId), { reason: parsed.data.declineReason }));
+		const result = await orFormFailure(parsed.values, () =>
+			declineBooking(user, Number(params.bookingId), { reason: parsed.data.declineReason })
+		);
 		if (!result.ok) return tagged('decline', result.failure);
 		back(params.bookingId, 'declined');
 	},
@@ -72,7 +98,9 @@ export const actions: Actions = {
 		const user = requireRole('workshop');
 		const parsed = await parseForm(cancelSchema, request);
 		if (!parsed.ok) return tagged('cancel', parsed.failure);
-		const result = await orFormFailure(parsed.values, () => cancelBooking(user, Number(params.bookingId), { reason: parsed.data.cancelReason }));
+		const result = await orFormFailure(parsed.values, () =>
+			cancelBooking(user, Number(params.bookingId), { reason: parsed.data.cancelReason })
+		);
 		if (!result.ok) return tagged('cancel', result.failure);
 		back(params.bookingId, 'cancelled');
 	}

@@ -17,7 +17,9 @@ export const actions: Actions = {
 		const user = requireRole('fleet_manager');
 		const parsed = await parseForm(visitRequestSchema, request);
 		if (!parsed.ok) return parsed.failure;
-		const result = await orFormFailure(parsed.values, () => requestVisit(user, { ...parsed.data, vehicleId: Number(params.vehicleId) }));
+		const result = await orFormFailure(parsed.values, () =>
+			requestVisit(user, { ...parsed.data, vehicleId: Number(params.vehicleId) })
+		);
 		if (!result.ok) return result.failure;
 		redirect(303, `/fleet/visits/${result.value.id}?requested`);
 	}
