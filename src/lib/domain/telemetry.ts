@@ -11,7 +11,7 @@ export type DecodedDeltaP = { ok: true; mbar: number } | { ok: false; reason: st
  * SPN 3251 "Aftertreatment 1 DPF differential pressure": PGN 64946 (0xFDB2, AT1IMG), bytes 5–6
  * (1-based; byte offset 4), 16 bits little-endian, 0.1 kPa/bit, offset 0, data range
  * 0 to 6 425.5 kPa (raw 0 to 64 255 = 0xFAFF). Sources: open-source J1939 PGN/SPN tables and the
- * pretty_j1939 example decode (see /work/shared/reference/standards.md §1).
+ * pretty_j1939 example decode.
  */
 export const J1939_SPN3251 = Object.freeze({
 	pgn: 64946,

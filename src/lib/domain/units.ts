@@ -10,8 +10,7 @@ export type PressureUnit = PressureUnitCode;
 export { PRESSURE_UNITS };
 
 /**
- * Pascals in one of each unit. Source: NIST SP 811 (2008), Appendix B.8, transcribed in
- * /work/shared/reference/units.md. The conventional manometer units are used because vacuum
+ * Pascals in one of each unit. Source: NIST SP 811 (2008), Appendix B.8. The conventional manometer units are used because vacuum
  * gauges are graduated in them; SP 811 rounds them to the digits below.
  */
 export const PASCALS_PER_UNIT: Readonly<Record<PressureUnit, number>> = Object.freeze({
