@@ -1,7 +1,7 @@
 import { removeExpiredSignInState } from '../src/lib/server/services/housekeeping';
 import type { Job } from './types';
 
-/** Hourly: drop expired sessions and sign-in failures older than the throttling window. */
+/** Hourly: drop expired sessions, sign-in failures older than the throttling window and run-out job leases. */
 export const housekeeping: Job = {
 	name: 'housekeeping',
 	schedule: process.env.JOB_HOUSEKEEPING_CRON ?? '17 * * * *',

@@ -1,12 +1,14 @@
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import { beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { factories } from './factories';
+import { createTestDatabase } from './test-database';
 import { readMailbox, recipients } from './mail';
 
 const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'sootcast-advice-job-'));
-process.env.DATABASE_URL = `sqlite:${path.join(dir, 'db.sqlite')}`;
+const database = await createTestDatabase('advice_job');
+process.env.DATABASE_URL = database.url;
 process.env.PUBLIC_URL = 'http://sootcast.test';
 process.env.APP_SECRET = 'advice-tests-secret-0123456789abcdefghij';
 
@@ -20,6 +22,11 @@ const monday = new Date(Date.UTC(2026, 10, 30, 6, 30));
 const make = factories(db);
 const mailDir = path.join(dir, 'mail');
 const ids: Record<string, number> = {};
+
+afterAll(async () => {
+	await db.closeDb();
+	await database.drop();
+});
 
 beforeAll(async () => {
 	await db.migrate();

@@ -4,11 +4,13 @@ import path from 'node:path';
 import ICAL from 'ical.js';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { factories } from './factories';
+import { createTestDatabase } from './test-database';
 import { readMailbox, recipients } from './mail';
 
 // Its own database and mail sink: the test counts bookings, bays and messages.
 const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'sootcast-bookings-'));
-process.env.DATABASE_URL = `sqlite:${path.join(dir, 'db.sqlite')}`;
+const database = await createTestDatabase('bookings');
+process.env.DATABASE_URL = database.url;
 process.env.PUBLIC_URL = 'http://sootcast.test';
 
 const db = await import('../../src/lib/server/db');
@@ -70,6 +72,8 @@ beforeAll(async () => {
 
 afterAll(async () => {
 	await sink?.close?.();
+	await db.closeDb();
+	await database.drop();
 });
 
 const ask = (reg: string, startsAt: string, workshopId = shops.shop) =>

@@ -2,13 +2,15 @@ import fs from 'node:fs';
 import net from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
-import { beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { factories } from './factories';
+import { createTestDatabase } from './test-database';
 import { readMailbox, recipients } from './mail';
 
 // Its own database and mail sink: the test counts every message, so nothing else may write.
 const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'sootcast-forecast-job-'));
-process.env.DATABASE_URL = `sqlite:${path.join(dir, 'db.sqlite')}`;
+const database = await createTestDatabase('forecast_job');
+process.env.DATABASE_URL = database.url;
 process.env.PUBLIC_URL = 'http://sootcast.test';
 
 const db = await import('../../src/lib/server/db');
@@ -39,6 +41,11 @@ async function digestsTo(email: string) {
 	return (await readMailbox(mailDir)).filter((m) => recipients(m).includes(email));
 }
 const vansNamed = (text: string) => [...text.matchAll(/^(GFC \d+) —/gm)].map((m) => m[1]).sort();
+
+afterAll(async () => {
+	await db.closeDb();
+	await database.drop();
+});
 
 beforeAll(async () => {
 	await db.migrate();
@@ -82,10 +89,14 @@ beforeAll(async () => {
 	);
 	const broken = await make.van(fleet.id, 'GFC 4');
 	await make.readings(broken.id, new Date(now.getTime() - 86_400_000), 8, 3, (i) => 150 + i);
+	// A row written around the app. SQLite stores any text in a time column; PostgreSQL's typed
+	// columns refuse that, but a float column takes NaN, which is just as unusable.
+	const breakage =
+		database.kind === 'sqlite' ? `taken_at = 'not a date'` : `delta_p_mbar = 'NaN'::float8`;
 	await db
 		.getDb()
 		.query(
-			`UPDATE readings SET taken_at = 'not a date' WHERE vehicle_id = ${broken.id} AND id = (SELECT MIN(id) FROM readings WHERE vehicle_id = ${broken.id})`
+			`UPDATE readings SET ${breakage} WHERE vehicle_id = ${broken.id} AND id = (SELECT MIN(id) FROM readings WHERE vehicle_id = ${broken.id})`
 		);
 	Object.assign(ids, { over: over.id, rising: rising.id, fine: fine.id, broken: broken.id });
 });

@@ -4,6 +4,7 @@ import os from 'node:os';
 import path from 'node:path';
 import net from 'node:net';
 import type { TestProject } from 'vitest/node';
+import { createTestDatabase } from './test-database';
 
 declare module 'vitest' {
 	export interface ProvidedContext {
@@ -43,14 +44,16 @@ async function waitForHealth(url: string, server: ChildProcess, timeoutMs = 30_0
 
 /**
  * Integration tests run against the real built server (`npm run build` first) on a free port,
- * with a temporary SQLite database holding the demo fleet.
+ * with a temporary database holding the demo fleet: SQLite, or PostgreSQL when TEST_POSTGRES_URL
+ * names a server (see test-database.ts).
  */
 export default async function setup(project: TestProject) {
 	const buildEntry = path.resolve('build/index.js');
 	if (!fs.existsSync(buildEntry))
 		throw new Error('No build found: run `npm run build` before the integration tests.');
 	const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'sootcast-it-'));
-	const databaseUrl = `sqlite:${path.join(dir, 'sootcast.db')}`;
+	const database = await createTestDatabase('server');
+	const databaseUrl = database.url;
 	process.env.DATABASE_URL = databaseUrl;
 
 	const { migrate, closeDb } = await import('../../src/lib/server/db');
@@ -92,6 +95,7 @@ export default async function setup(project: TestProject) {
 		server.kill('SIGTERM');
 		await new Promise((r) => server.once('exit', r));
 		await sink.close();
+		await database.drop();
 		fs.rmSync(dir, { recursive: true, force: true });
 	};
 }

@@ -105,7 +105,7 @@ let stopping = false;
 async function stop(code = 0) {
 	if (stopping) return;
 	stopping = true;
-	stopWorker();
+	await stopWorker();
 	if (web.exitCode === null) web.kill('SIGTERM');
 	await sink?.close();
 	await closeDb();

@@ -1,6 +1,8 @@
 import type { Sequelize } from 'sequelize';
 import { createSequelize } from './sequelize';
 import { createMigrator } from './migrator';
+import { withMigrationLock } from './migration-lock';
+import { config } from '../config';
 import * as models from './models';
 
 const {
@@ -68,8 +70,9 @@ export function getDb(): Sequelize {
 	return sequelize;
 }
 
+/** Applies pending migrations; instances starting together on PostgreSQL take turns. */
 export async function migrate(): Promise<string[]> {
-	const done = await createMigrator(getDb()).up();
+	const done = await withMigrationLock(config.DATABASE_URL, () => createMigrator(getDb()).up());
 	return done.map((m) => m.name);
 }
 
@@ -79,3 +82,5 @@ export async function closeDb(): Promise<void> {
 }
 
 export * from './models';
+export { together } from './together';
+export { inTransaction } from './sequelize';

@@ -43,6 +43,11 @@ const transactionNamespace = {
 };
 Sequelize.useCLS(transactionNamespace);
 
+/** True while the calling code runs inside `getDb().transaction(async () => …)`. */
+export function inTransaction(): boolean {
+	return transactionNamespace.get('transaction') !== undefined;
+}
+
 export type DatabaseKind = 'sqlite' | 'postgres';
 
 export function databaseKind(url: string): DatabaseKind {

@@ -1,5 +1,5 @@
 import { Op } from 'sequelize';
-import { Booking, Organisation, User, Vehicle, WorkshopCapacity } from '../db';
+import { Booking, Organisation, User, Vehicle, WorkshopCapacity, together } from '../db';
 import { publicUrl, config } from '../config';
 import { buildInvitation } from '../mail/ical';
 import { buttonHtml, escapeHtml, frameHtml } from '../mail/html';
@@ -28,11 +28,11 @@ const mailAddress = (from: string) => /<([^>]+)>/.exec(from)?.[1] ?? from;
 export async function sendBookingMail(bookingId: number, now: Date): Promise<void> {
 	const b = await Booking.findByPk(bookingId);
 	if (!b || !b.startsAt || !b.endsAt) return;
-	const [vehicle, workshop, cap] = await Promise.all([
-		Vehicle.findByPk(b.vehicleId),
-		Organisation.findByPk(b.workshopId),
-		WorkshopCapacity.findByPk(b.workshopId)
-	]);
+	const [vehicle, workshop, cap] = await together(
+		() => Vehicle.findByPk(b.vehicleId),
+		() => Organisation.findByPk(b.workshopId),
+		() => WorkshopCapacity.findByPk(b.workshopId)
+	);
 	if (!vehicle || !workshop) return;
 	const people = await User.findAll({
 		where: {

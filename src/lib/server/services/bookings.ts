@@ -13,7 +13,8 @@ import {
 	VehicleStatus,
 	WorkshopCapacity,
 	WorkshopClosedDay,
-	WorkshopVisitKind
+	WorkshopVisitKind,
+	together
 } from '../db';
 import type { SessionUser } from '../auth/lucia';
 import {
@@ -59,12 +60,12 @@ export interface Capacity {
 }
 
 export async function getCapacity(workshopId: number): Promise<Capacity> {
-	const [org, row, closed, kinds] = await Promise.all([
-		Organisation.findByPk(workshopId),
-		WorkshopCapacity.findByPk(workshopId),
-		WorkshopClosedDay.findAll({ where: { workshopId }, order: [['day', 'ASC']] }),
-		WorkshopVisitKind.findAll({ where: { workshopId } })
-	]);
+	const [org, row, closed, kinds] = await together(
+		() => Organisation.findByPk(workshopId),
+		() => WorkshopCapacity.findByPk(workshopId),
+		() => WorkshopClosedDay.findAll({ where: { workshopId }, order: [['day', 'ASC']] }),
+		() => WorkshopVisitKind.findAll({ where: { workshopId } })
+	);
 	if (!org || org.kind !== 'workshop') throw new NotFoundError('That workshop');
 	const base = row ? row.get({ plain: true }) : { ...DEFAULT_CAPACITY, workshopId };
 	const offered = kinds.length
@@ -277,12 +278,12 @@ async function findBooking(user: SessionUser, bookingId: number): Promise<Bookin
 }
 
 async function view(b: Booking): Promise<BookingView> {
-	const [vehicle, workshop, cap, changes] = await Promise.all([
-		Vehicle.findByPk(b.vehicleId, { attributes: ['registration'] }),
-		Organisation.findByPk(b.workshopId, { attributes: ['name'] }),
-		WorkshopCapacity.findByPk(b.workshopId, { attributes: ['timeZone'] }),
-		BookingChange.findAll({ where: { bookingId: b.id }, order: [['id', 'ASC']] })
-	]);
+	const [vehicle, workshop, cap, changes] = await together(
+		() => Vehicle.findByPk(b.vehicleId, { attributes: ['registration'] }),
+		() => Organisation.findByPk(b.workshopId, { attributes: ['name'] }),
+		() => WorkshopCapacity.findByPk(b.workshopId, { attributes: ['timeZone'] }),
+		() => BookingChange.findAll({ where: { bookingId: b.id }, order: [['id', 'ASC']] })
+	);
 	const people = await User.findAll({
 		where: { id: { [Op.in]: changes.map((c) => c.userId).filter((x): x is number => x !== null) } },
 		attributes: ['id', 'name']

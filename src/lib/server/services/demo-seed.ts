@@ -148,9 +148,9 @@ export async function seedDemo(now = new Date(), days = DEMO_DAYS): Promise<Demo
 			});
 		}
 
-		const depots = await Promise.all(
-			DEPOTS.map((d) => Depot.create({ organisationId: larkspur.id, name: d.name, town: d.town }))
-		);
+		const depots: Depot[] = [];
+		for (const d of DEPOTS)
+			depots.push(await Depot.create({ organisationId: larkspur.id, name: d.name, town: d.town }));
 		const thistledownYard = await Depot.create({
 			organisationId: thistledown.id,
 			name: 'Thistledown yard',

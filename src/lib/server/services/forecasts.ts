@@ -4,7 +4,7 @@ import type { PressureReading } from '../../domain/series';
 import type { FilterEvent } from '../../domain/trend';
 import { STATUS_RANK, statusFromForecast, type VanStatus } from '../../domain/status';
 import { config } from '../config';
-import { Forecast, Reading, Vehicle, VehicleEvent, VehicleStatus, getDb } from '../db';
+import { Forecast, Reading, Vehicle, VehicleEvent, VehicleStatus, getDb, together } from '../db';
 
 /** What changed for a van between its previous forecast and this one (null: nothing worth telling). */
 export type StatusChange = 'crossed_line' | 'entered_window' | 'recovered' | null;
@@ -29,37 +29,39 @@ export async function loadEngineInputs(vehicleIds: number[]): Promise<Map<number
 	);
 	if (!vehicleIds.length) return inputs;
 	// One query per table for the whole batch: a query per van would cost more than the maths.
-	const [readings, events] = await Promise.all([
-		Reading.findAll({
-			attributes: [
-				'id',
-				'vehicleId',
-				'takenAt',
-				'odometerKm',
-				'deltaPMbar',
-				'condition',
-				'rpm',
-				'airMassFlowKgH',
-				'exhaustTempC',
-				'ambientPressureKpa'
-			],
-			where: { vehicleId: { [Op.in]: vehicleIds } },
-			order: [
-				['vehicleId', 'ASC'],
-				['takenAt', 'ASC']
-			],
-			raw: true
-		}),
-		VehicleEvent.findAll({
-			attributes: ['vehicleId', 'occurredAt', 'kind', 'odometerKm'],
-			where: { vehicleId: { [Op.in]: vehicleIds } },
-			order: [
-				['vehicleId', 'ASC'],
-				['occurredAt', 'ASC']
-			],
-			raw: true
-		})
-	]);
+	const [readings, events] = await together(
+		() =>
+			Reading.findAll({
+				attributes: [
+					'id',
+					'vehicleId',
+					'takenAt',
+					'odometerKm',
+					'deltaPMbar',
+					'condition',
+					'rpm',
+					'airMassFlowKgH',
+					'exhaustTempC',
+					'ambientPressureKpa'
+				],
+				where: { vehicleId: { [Op.in]: vehicleIds } },
+				order: [
+					['vehicleId', 'ASC'],
+					['takenAt', 'ASC']
+				],
+				raw: true
+			}),
+		() =>
+			VehicleEvent.findAll({
+				attributes: ['vehicleId', 'occurredAt', 'kind', 'odometerKm'],
+				where: { vehicleId: { [Op.in]: vehicleIds } },
+				order: [
+					['vehicleId', 'ASC'],
+					['occurredAt', 'ASC']
+				],
+				raw: true
+			})
+	);
 	for (const r of readings) {
 		const at = new Date(r.takenAt);
 		// Rows written around the app (a manual SQL fix, a broken import elsewhere) must not

@@ -29,3 +29,13 @@ export async function acquireLease(
 export async function releaseLease(job: string, holder: string): Promise<void> {
 	await JobLease.destroy({ where: { job, holder } });
 }
+
+/** Keeps a lease this holder has until `expiresAt` (remembering a finished occurrence). */
+export async function extendLease(job: string, holder: string, expiresAt: Date): Promise<void> {
+	await JobLease.update({ expiresAt }, { where: { job, holder } });
+}
+
+/** Forgets leases that ran out (remembered occurrences included). */
+export async function removeExpiredLeases(now: Date): Promise<number> {
+	return JobLease.destroy({ where: { expiresAt: { [Op.lte]: now } } });
+}

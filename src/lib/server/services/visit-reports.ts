@@ -9,7 +9,8 @@ import {
 	User,
 	Vehicle,
 	VehicleEvent,
-	VisitReport
+	VisitReport,
+	together
 } from '../db';
 import type { SessionUser } from '../auth/lucia';
 import { publicUrl } from '../config';
@@ -229,14 +230,14 @@ async function viewOf(r: VisitReport): Promise<VisitReportView> {
 		idleBeforeMbar?: number | null;
 		idleAfterMbar?: number | null;
 	};
-	const [vehicle, workshop, author, signer, test, booking] = await Promise.all([
-		Vehicle.findByPk(r.vehicleId, { attributes: ['registration'] }),
-		Organisation.findByPk(r.workshopId, { attributes: ['name'] }),
-		User.findByPk(r.authorId, { attributes: ['name'] }),
-		r.signedOffById ? User.findByPk(r.signedOffById, { attributes: ['name'] }) : null,
-		actionsJson.sensorTestId ? SensorTest.findByPk(actionsJson.sensorTestId) : null,
-		r.bookingId ? Booking.findByPk(r.bookingId, { attributes: ['visitKind'] }) : null
-	]);
+	const [vehicle, workshop, author, signer, test, booking] = await together(
+		() => Vehicle.findByPk(r.vehicleId, { attributes: ['registration'] }),
+		() => Organisation.findByPk(r.workshopId, { attributes: ['name'] }),
+		() => User.findByPk(r.authorId, { attributes: ['name'] }),
+		() => (r.signedOffById ? User.findByPk(r.signedOffById, { attributes: ['name'] }) : null),
+		() => (actionsJson.sensorTestId ? SensorTest.findByPk(actionsJson.sensorTestId) : null),
+		() => (r.bookingId ? Booking.findByPk(r.bookingId, { attributes: ['visitKind'] }) : null)
+	);
 	const rootCause = (r.rootCause ?? {}) as Record<string, string>;
 	return {
 		id: r.id,
