@@ -126,6 +126,20 @@ describe('API tokens', () => {
 		expect(limited, 'a burst of requests runs into the limit').not.toBeNull();
 		expect(Number(limited!.headers.get('retry-after'))).toBeGreaterThanOrEqual(1);
 		expect(await limited!.json()).toMatchObject({ error: { code: 'rate_limited' } });
+		// Requests arriving together are counted one by one: exactly the burst gets through.
+		const racing = await newToken('Racing unit');
+		const started = Date.now();
+		const burst = await Promise.all(
+			Array.from({ length: 80 }, () =>
+				fetch(baseUrl + '/api/v1/imports', { headers: { authorization: `Bearer ${racing}` } })
+			)
+		);
+		const refilled = Math.ceil(((Date.now() - started) / 1000) * (120 / 60));
+		const passed = burst.filter((r) => r.status === 200).length;
+		expect(burst.every((r) => r.status === 200 || r.status === 429)).toBe(true);
+		// The burst allowance (API_RATE_BURST 60) plus what refilled (120 a minute) while they ran.
+		expect(passed).toBeGreaterThanOrEqual(60);
+		expect(passed).toBeLessThanOrEqual(60 + refilled);
 		// Another token of the same fleet has its own allowance
 		const fresh = await newToken('Quiet unit');
 		expect(
@@ -200,6 +214,30 @@ describe('POST /api/v1/readings', () => {
 			{ 'idempotency-key': 'batch-7f3a' }
 		);
 		expect(reused.status).toBe(409);
+		expect(await db.Reading.count({ where: { vehicleId: vanId } })).toBe(before + 2);
+	});
+
+	it('stores a batch once when the same Idempotency-Key arrives twice at the same moment', async () => {
+		// Two instances (or two connections) answering a retried request in parallel.
+		const body = { readings: [reading({ takenAt: at(320) }), reading({ takenAt: at(319) })] };
+		const before = await db.Reading.count({ where: { vehicleId: vanId } });
+		const answers = await Promise.all(
+			[0, 1, 2].map(() =>
+				post('/api/v1/readings', token, body, { 'idempotency-key': 'batch-race-1' })
+			)
+		);
+		expect(answers.map((a) => a.status)).toEqual([201, 201, 201]);
+		const bodies = await Promise.all(answers.map((a) => a.json()));
+		expect(new Set(bodies.map((b) => b.batchId)).size).toBe(1);
+		expect(answers.filter((a) => a.headers.get('idempotent-replayed') === 'true')).toHaveLength(2);
+		expect(await db.Reading.count({ where: { vehicleId: vanId } })).toBe(before + 2);
+	});
+
+	it('stores the same readings once when two batches carrying them arrive at the same moment', async () => {
+		const before = await db.Reading.count({ where: { vehicleId: vanId } });
+		const body = { readings: [reading({ takenAt: at(330) }), reading({ takenAt: at(331) })] };
+		const answers = await Promise.all([0, 1].map(() => post('/api/v1/readings', token, body)));
+		expect(answers.map((a) => a.status).sort()).toEqual([200, 201]);
 		expect(await db.Reading.count({ where: { vehicleId: vanId } })).toBe(before + 2);
 	});
 

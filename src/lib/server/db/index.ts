@@ -84,3 +84,4 @@ export async function closeDb(): Promise<void> {
 export * from './models';
 export { together } from './together';
 export { inTransaction } from './sequelize';
+export { serializeOn } from './serialize';

@@ -1,5 +1,5 @@
 import { createHash, randomBytes } from 'node:crypto';
-import { ApiRateBucket, ApiToken, Organisation, getDb } from '../db';
+import { ApiRateBucket, ApiToken, Organisation, getDb, serializeOn } from '../db';
 import type { SessionUser } from '../auth/lucia';
 import { config } from '../config';
 import type { ApiTokenNameInput } from '../../validation/api-tokens';
@@ -103,6 +103,7 @@ export async function authenticateApiToken(token: string, now = new Date()): Pro
 	if (!row || row.revokedAt)
 		throw new UnauthorizedError('This API token is not valid: it is unknown or has been revoked.');
 	await getDb().transaction(async () => {
+		await serializeOn(getDb(), `api-rate:${row.id}`);
 		const capacity = config.API_RATE_BURST;
 		const perSecond = config.API_RATE_PER_MINUTE / 60;
 		const bucket = await ApiRateBucket.findByPk(row.id);

@@ -19,7 +19,8 @@ import {
 	User,
 	Vehicle,
 	VehicleEvent,
-	getDb
+	getDb,
+	serializeOn
 } from '../db';
 import type { SessionUser } from '../auth/lucia';
 import { config } from '../config';
@@ -52,7 +53,7 @@ import {
 	type TripRow,
 	type VehicleRow
 } from './import-rows';
-import { existingReadingKeys, insertReadings, vanTimeKey } from './reading-writes';
+import { existingReadingKeys, insertReadings, readingsTopic, vanTimeKey } from './reading-writes';
 import {
 	IMPORT_FIELDS,
 	IMPORT_UNITS,
@@ -635,6 +636,7 @@ export async function runImport(
 	}
 	onProgress?.({ phase: 'saving', rows: count, bytes: totalBytes, totalBytes });
 	const result = await getDb().transaction(async () => {
+		await serializeOn(getDb(), readingsTopic(user.organisationId));
 		const batch = await ImportBatch.create({
 			organisationId: user.organisationId,
 			kind: settings.kind,

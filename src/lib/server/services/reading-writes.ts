@@ -86,3 +86,6 @@ export async function existingReadingKeys(
 	}
 	return { times, clientIds: ids };
 }
+
+/** The serializeOn topic of everything that writes a fleet's readings, events or vans. */
+export const readingsTopic = (organisationId: number) => `fleet-writes:${organisationId}`;

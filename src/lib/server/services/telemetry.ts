@@ -5,13 +5,14 @@
  * reported as duplicates, never stored twice; an `Idempotency-Key` replays the first answer.
  */
 import { Op } from 'sequelize';
-import { IdempotencyKey, ImportBatch, Vehicle, VehicleEvent, getDb } from '../db';
+import { IdempotencyKey, ImportBatch, Vehicle, VehicleEvent, getDb, serializeOn } from '../db';
 import type { ApiUser } from './api-tokens';
 import { vehicleScope } from './scope';
 import { ConflictError, NotFoundError, ValidationError } from './errors';
 import {
 	existingReadingKeys,
 	insertReadings,
+	readingsTopic,
 	vanTimeKey,
 	type NewReadingRow
 } from './reading-writes';
@@ -164,6 +165,8 @@ export async function recordReadingBatch(
 		throw new ValidationError(`${firstField}: ${firstMessage}`, fields);
 	}
 	return getDb().transaction(async () => {
+		// One writer of a fleet's readings at a time, so duplicate and key checks hold.
+		await serializeOn(getDb(), readingsTopic(user.organisationId));
 		const replay = await replayed(user, idem);
 		if (replay) return replay;
 		const vanIds = await resolveVans(user, input.readings, 'readings');
@@ -271,6 +274,8 @@ export async function recordEventBatch(
 		throw new ValidationError(`${firstField}: ${firstMessage}`, fields);
 	}
 	return getDb().transaction(async () => {
+		// One writer of a fleet's readings at a time, so duplicate and key checks hold.
+		await serializeOn(getDb(), readingsTopic(user.organisationId));
 		const replay = await replayed(user, idem);
 		if (replay) return replay;
 		const vanIds = await resolveVans(user, input.events, 'events');
