@@ -49,3 +49,10 @@ export function showNumber(
 		minimumFractionDigits: decimals
 	}).format(value);
 }
+
+/** A file size as people read it: "840 KB", "2.4 MB". */
+export function showBytes(bytes: number, locale = 'en-GB'): string {
+	if (bytes >= 1024 * 1024) return `${showNumber(bytes / (1024 * 1024), 1, locale)} MB`;
+	if (bytes >= 1024) return `${showNumber(bytes / 1024, 0, locale)} KB`;
+	return `${showNumber(bytes, 0, locale)} bytes`;
+}

@@ -406,7 +406,8 @@ describe('GET /api/v1/openapi.json', () => {
 			'import-batches/{batchId}',
 			'vehicles/{vehicleId}/captures',
 			'sensor-tests/{testId}/trace',
-			'uploads/{uploadId}'
+			'uploads/{uploadId}',
+			'visit-reports/{reportId}/attachments/{attachmentId}'
 		]) {
 			expect(doc.paths[`/api/v1/${p}`], p).toBeDefined();
 		}

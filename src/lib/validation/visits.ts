@@ -86,3 +86,7 @@ export const visitReportSchema = z.object({
 	engineFaults: optionalText(1000, 'Engine faults'),
 	signOff: z.preprocess((v) => v === 'on' || v === 'true', z.boolean())
 });
+
+export const removeAttachmentSchema = z.object({
+	attachmentId: z.coerce.number({ error: 'Choose a file to remove' }).int().positive()
+});

@@ -22,7 +22,8 @@ const {
 	User,
 	Vehicle,
 	VehicleEvent,
-	VisitReport
+	VisitReport,
+	VisitReportAttachment
 } = models;
 
 function associate(): void {
@@ -52,6 +53,7 @@ function associate(): void {
 	Booking.hasOne(models.BookingSlot, { foreignKey: 'bookingId', as: 'slot' });
 	Booking.hasMany(models.BookingChange, { foreignKey: 'bookingId', as: 'changes' });
 	VisitReport.belongsTo(Vehicle, { foreignKey: 'vehicleId', as: 'vehicle' });
+	VisitReport.hasMany(VisitReportAttachment, { foreignKey: 'visitReportId', as: 'attachments' });
 	SensorTest.belongsTo(Vehicle, { foreignKey: 'vehicleId', as: 'vehicle' });
 	Upload.belongsTo(Organisation, { foreignKey: 'organisationId' });
 	ApiToken.belongsTo(Organisation, { foreignKey: 'organisationId' });

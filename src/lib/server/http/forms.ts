@@ -35,6 +35,14 @@ export async function parseForm<S extends z.ZodType>(
 		const seen = raw[key];
 		raw[key] = seen === undefined ? value : Array.isArray(seen) ? [...seen, value] : [seen, value];
 	}
+	return parseFields(schema, raw);
+}
+
+/** `parseForm` for fields already read (a multipart post read as a stream). */
+export function parseFields<S extends z.ZodType>(
+	schema: S,
+	raw: Record<string, string | string[]>
+): Parsed<z.infer<S>> {
 	const values = Object.fromEntries(
 		Object.entries(raw)
 			.filter(([k]) => !SECRET_FIELDS.test(k))

@@ -54,3 +54,74 @@ export async function readMultipart<T>(
 	await finished;
 	return { fields, result: work ? await work : undefined };
 }
+
+/** Text fields of a form; a name sent several times (checkbox groups) gives an array. */
+export type FormFields = Record<string, string | string[]>;
+
+/**
+ * Reads a form post that may carry several files, one after another as they arrive: each goes
+ * to `consume` (never buffered whole). After the first refusal the remaining files are read
+ * and dropped, so the answer still reaches the sender; the caller decides what to do with the
+ * files already consumed. A urlencoded post (no file input) gives its fields and no files.
+ */
+export async function readFormWithFiles<T>(
+	request: Request,
+	consume: (file: IncomingFile) => Promise<T>,
+	options: { maxFiles: number; tooMany: () => Error }
+): Promise<{ fields: FormFields; results: T[]; failure: unknown }> {
+	const fields: FormFields = {};
+	const add = (name: string, value: string) => {
+		const seen = fields[name];
+		fields[name] = seen === undefined ? value : [...(Array.isArray(seen) ? seen : [seen]), value];
+	};
+	const contentType = request.headers.get('content-type') ?? '';
+	if (!contentType.toLowerCase().startsWith('multipart/form-data') || !request.body) {
+		for (const [name, value] of (await request.formData()).entries())
+			if (typeof value === 'string') add(name, value);
+		return { fields, results: [], failure: null };
+	}
+	const parser = busboy({
+		headers: { 'content-type': contentType },
+		limits: { files: options.maxFiles + 1, fields: 60, fieldSize: 64 * 1024 }
+	});
+	const results: T[] = [];
+	let failure: unknown = null;
+	let count = 0;
+	let queue: Promise<void> = Promise.resolve();
+	parser.on('field', add);
+	parser.on('file', (_name, stream, { filename: fileName }) => {
+		if (!fileName) {
+			stream.resume(); // an empty file input
+			return;
+		}
+		count += 1;
+		if (count > options.maxFiles) failure ??= options.tooMany();
+		queue = queue.then(async () => {
+			if (failure) {
+				stream.resume();
+				return;
+			}
+			try {
+				results.push(await consume({ fileName, body: stream }));
+			} catch (err) {
+				failure = err;
+				stream.resume();
+			}
+		});
+	});
+	const finished = new Promise<void>((resolve, reject) => {
+		parser.on('close', () => resolve());
+		parser.on('error', reject);
+	});
+	const source = Readable.fromWeb(
+		request.body as import('node:stream/web').ReadableStream<Uint8Array>
+	);
+	source.on('error', (err) => parser.destroy(err));
+	source.pipe(parser);
+	// A broken upload still lets the files already written be handed back for cleaning up
+	await finished.catch((err) => {
+		failure ??= err;
+	});
+	await queue;
+	return { fields, results, failure };
+}

@@ -232,6 +232,20 @@ export function openApiDocument(serverUrl: string) {
 					}
 				}
 			},
+			'/api/v1/visit-reports/{reportId}/attachments/{attachmentId}': {
+				get: {
+					summary: "A visit report's photo or PDF, inline, with the type found by content sniffing",
+					parameters: [idParam('reportId'), idParam('attachmentId')],
+					responses: {
+						'200': {
+							description: 'The file (image/jpeg, image/png, image/webp or application/pdf)'
+						},
+						'304': { description: 'Unchanged since the ETag sent in If-None-Match' },
+						'404': err('Not found, or not the fleet of the van nor the workshop that wrote it'),
+						...common
+					}
+				}
+			},
 			'/api/v1/imports': {
 				post: {
 					summary:

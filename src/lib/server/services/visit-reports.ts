@@ -10,6 +10,7 @@ import {
 	Vehicle,
 	VehicleEvent,
 	VisitReport,
+	VisitReportAttachment,
 	together
 } from '../db';
 import type { SessionUser } from '../auth/lucia';
@@ -25,6 +26,14 @@ import { forecastVehicle } from './forecasts';
 import { kickOutbox, queueMail } from './outbox';
 import { vehicleScope } from './scope';
 import { listBookings } from './bookings';
+import {
+	discardStored,
+	insertAttachments,
+	listAttachments,
+	mayOpenAttachments,
+	type AttachmentView,
+	type StoredAttachment
+} from './visit-report-attachments';
 
 /** What a workshop can record as done; each becomes a vehicle event the forecast reads. */
 export const VISIT_ACTIONS = [
@@ -83,6 +92,7 @@ export interface VisitReportView {
 	bookingId: number | null;
 	vehicleId: number;
 	registration: string;
+	workshopId: number;
 	workshopName: string;
 	author: string;
 	visitedAt: Date;
@@ -94,23 +104,47 @@ export interface VisitReportView {
 	signedOffAt: Date | null;
 	signedOffBy: string | null;
 	visitKindLabel: string | null;
+	/** Empty for a workshop that did not write the report: its files are not theirs to open. */
+	attachments: AttachmentView[];
 }
 
 /**
  * The workshop records a confirmed visit: readings join the van's series (idle, source
  * 'visit'), each action becomes a vehicle event (cleaning and replacement start a new epoch
  * in the forecast), the booking is done. Then the van is forecast again and the fleet's
- * managers are e-mailed the report.
+ * managers are e-mailed the report. Files already streamed to storage are attached in the same
+ * transaction, and removed again if the report is refused.
  */
 export async function createVisitReport(
 	user: SessionUser,
 	bookingId: number,
 	input: VisitReportInput,
-	now = new Date()
+	now = new Date(),
+	files: StoredAttachment[] = []
 ): Promise<VisitReportView> {
+	let reportId: number;
+	try {
+		reportId = await saveReport(user, bookingId, input, now, files);
+	} catch (err) {
+		await discardStored(files);
+		throw err;
+	}
+	const report = await VisitReport.findByPk(reportId);
+	await forecastVehicle(report!.vehicleId, now);
+	await mailReport(reportId, now);
+	return viewOf(report!, await listAttachments(reportId));
+}
+
+async function saveReport(
+	user: SessionUser,
+	bookingId: number,
+	input: VisitReportInput,
+	now: Date,
+	files: StoredAttachment[]
+): Promise<number> {
 	if (user.role !== 'workshop')
 		throw new ForbiddenError('Only the workshop writes the visit report.');
-	const reportId = await getDb().transaction(async () => {
+	return getDb().transaction(async () => {
 		const booking = await Booking.findOne({
 			where: { id: bookingId, workshopId: user.organisationId }
 		});
@@ -155,6 +189,7 @@ export async function createVisitReport(
 			signedOffAt: input.signOff ? now : null,
 			signedOffById: input.signOff ? user.id : null
 		});
+		await insertAttachments(report.id, files, user, now);
 		// Before-readings a minute before the visit time, the events at it, after-readings a minute later.
 		const at = input.visitedAt.getTime();
 		if (input.idleBeforeMbar !== undefined) {
@@ -212,18 +247,14 @@ export async function createVisitReport(
 			'visit_report.create',
 			'visit_report',
 			report.id,
-			{ bookingId: booking.id, actions: input.actions },
+			{ bookingId: booking.id, actions: input.actions, attachments: files.length },
 			now
 		);
 		return report.id;
 	});
-	const report = await VisitReport.findByPk(reportId);
-	await forecastVehicle(report!.vehicleId, now);
-	await mailReport(reportId, now);
-	return viewOf(report!);
 }
 
-async function viewOf(r: VisitReport): Promise<VisitReportView> {
+async function viewOf(r: VisitReport, attachments: AttachmentView[]): Promise<VisitReportView> {
 	const actionsJson = (r.actions ?? {}) as {
 		done?: VisitAction[];
 		sensorTestId?: number | null;
@@ -244,6 +275,7 @@ async function viewOf(r: VisitReport): Promise<VisitReportView> {
 		bookingId: r.bookingId,
 		vehicleId: r.vehicleId,
 		registration: vehicle?.registration ?? '',
+		workshopId: r.workshopId,
 		workshopName: workshop?.name ?? '',
 		author: author?.name ?? '',
 		visitedAt: r.visitedAt,
@@ -271,7 +303,8 @@ async function viewOf(r: VisitReport): Promise<VisitReportView> {
 		signedOffBy: signer?.name ?? null,
 		visitKindLabel: booking
 			? (VISIT_KIND_LABEL[booking.visitKind as VisitKind] ?? booking.visitKind)
-			: null
+			: null,
+		attachments
 	};
 }
 
@@ -286,7 +319,7 @@ export async function getVisitReport(
 		where: { [Op.and]: [await vehicleScope(user), { id: r.vehicleId }] }
 	});
 	if (!visible) throw new NotFoundError('That visit report');
-	return viewOf(r);
+	return viewOf(r, mayOpenAttachments(user, r) ? await listAttachments(r.id) : []);
 }
 
 export async function getReportForBooking(
@@ -311,7 +344,8 @@ export async function reportFormTests(vehicleId: number) {
 async function mailReport(reportId: number, now: Date): Promise<void> {
 	const r = await VisitReport.findByPk(reportId);
 	if (!r) return;
-	const view = await viewOf(r);
+	const view = await viewOf(r, []);
+	const fileCount = await VisitReportAttachment.count({ where: { visitReportId: r.id } });
 	const vehicle = await Vehicle.findByPk(r.vehicleId);
 	const managers = await User.findAll({
 		where: { organisationId: vehicle!.organisationId, role: 'fleet_manager', active: true },
@@ -328,6 +362,10 @@ async function mailReport(reportId: number, now: Date): Promise<void> {
 			view.findings ? `Findings: ${view.findings}` : '',
 			...view.rootCause.map((c) => `${c.label}: ${c.text}`),
 			view.signedOffBy ? `Signed off by ${view.signedOffBy}.` : 'Not signed off yet.',
+			// Files stay behind the sign-in: big photos do not belong in a mailbox
+			fileCount
+				? `${fileCount === 1 ? '1 photo or document is attached to the report; open it' : `${fileCount} photos or documents are attached to the report; open them`} there: ${link}`
+				: '',
 			'',
 			`Read and print the report: ${link}`
 		].filter((l, i, all) => l !== '' || all[i - 1] !== '');
@@ -364,10 +402,19 @@ export async function listVanVisits(user: SessionUser, vehicleId: number) {
 		listBookings(user, { vehicleId }),
 		VisitReport.findAll({
 			where: { vehicleId },
-			attributes: ['id', 'bookingId'],
-			order: [['id', 'ASC']],
-			raw: true
+			attributes: ['id', 'bookingId', 'workshopId'],
+			order: [['id', 'ASC']]
 		})
 	]);
-	return { bookings, reports: reports.map((r) => ({ id: r.id, bookingId: r.bookingId })) };
+	const counts = await Promise.all(
+		reports.map((r) =>
+			mayOpenAttachments(user, r)
+				? VisitReportAttachment.count({ where: { visitReportId: r.id } })
+				: 0
+		)
+	);
+	return {
+		bookings,
+		reports: reports.map((r, i) => ({ id: r.id, bookingId: r.bookingId, files: counts[i] }))
+	};
 }

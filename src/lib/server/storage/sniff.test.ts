@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { notTextMessage, sniffContent } from './sniff';
+import { notTextMessage, sniffContent, sniffMediaType } from './sniff';
 
 const bytes = (...values: number[]) => Uint8Array.from(values);
 const text = (s: string) => new TextEncoder().encode(s);
@@ -59,5 +59,28 @@ describe('sniffContent', () => {
 	it('asks for UTF-8 when a file is saved as UTF-16', () => {
 		const sniffed = sniffContent(bytes(0xff, 0xfe, 0x61, 0x00));
 		expect(notTextMessage(sniffed, 'x.csv')).toMatch(/UTF-16/);
+	});
+});
+
+describe('sniffMediaType', () => {
+	it('knows a JPEG, a PNG, a WebP and a PDF by their first bytes', () => {
+		// check value: SOI marker FF D8 then a marker's FF (ITU-T T.81, B.1.1.3 and B.2.1)
+		expect(sniffMediaType(bytes(0xff, 0xd8, 0xff, 0xe0, 0x00, 0x10))).toBe('image/jpeg');
+		// check value: the eight-byte PNG signature (PNG specification, 3rd ed., 5.2)
+		expect(sniffMediaType(bytes(0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 13))).toBe(
+			'image/png'
+		);
+		// check value: "RIFF", a little-endian size, then "WEBP" (RFC 9649, 2.5 RIFF header)
+		expect(sniffMediaType(text('RIFF\x24\x00\x00\x00WEBPVP8 '))).toBe('image/webp');
+		// check value: "%PDF-" opens every PDF file (ISO 32000-1, 7.5.2 File header)
+		expect(sniffMediaType(text('%PDF-1.7\n'))).toBe('application/pdf');
+	});
+
+	it('refuses other files whatever they are called', () => {
+		expect(sniffMediaType(text('<svg xmlns="http://www.w3.org/2000/svg"/>'))).toBeNull();
+		expect(sniffMediaType(text('RIFF\x24\x00\x00\x00WAVEfmt '))).toBeNull(); // RIFF audio
+		expect(sniffMediaType(bytes(0x47, 0x49, 0x46, 0x38, 0x39, 0x61))).toBeNull(); // GIF
+		expect(sniffMediaType(bytes(0x89, 0x50, 0x4e, 0x47))).toBeNull(); // PNG cut short
+		expect(sniffMediaType(new Uint8Array(0))).toBeNull();
 	});
 });

@@ -4,6 +4,7 @@
  * to do; anything else with NUL bytes or many control characters is binary; text is read as
  * UTF-8, or as Windows-1252 when it is not valid UTF-8 (older spreadsheet exports).
  */
+import type { AttachmentMediaType } from '../../attachments';
 
 export type Sniffed =
 	| { kind: 'empty' }
@@ -73,6 +74,32 @@ export function sniffContent(head: Uint8Array, atEnd = false): Sniffed {
 	} catch {
 		return { kind: 'text', encoding: 'windows-1252' };
 	}
+}
+
+/** Leading bytes of the attachment formats a report accepts. */
+const MEDIA_SIGNATURES: { type: AttachmentMediaType; test: (head: Uint8Array) => boolean }[] = [
+	{ type: 'image/jpeg', test: (h) => startsWith(h, [0xff, 0xd8, 0xff]) },
+	{
+		type: 'image/png',
+		test: (h) => startsWith(h, [0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a])
+	},
+	// A RIFF container ("RIFF", 4 size bytes) whose form type is "WEBP"
+	{
+		type: 'image/webp',
+		test: (h) =>
+			startsWith(h, [0x52, 0x49, 0x46, 0x46]) &&
+			h.length >= 12 &&
+			[0x57, 0x45, 0x42, 0x50].every((b, i) => h[8 + i] === b)
+	},
+	{ type: 'application/pdf', test: (h) => startsWith(h, [0x25, 0x50, 0x44, 0x46, 0x2d]) }
+];
+
+/** Bytes `sniffMediaType` needs to decide. */
+export const MEDIA_SNIFF_BYTES = 12;
+
+/** The photo or PDF type the file's first bytes show, or null for anything else. */
+export function sniffMediaType(head: Uint8Array): AttachmentMediaType | null {
+	return MEDIA_SIGNATURES.find((s) => s.test(head))?.type ?? null;
 }
 
 /** The message for a file that is not CSV text, or null when it is fine. */

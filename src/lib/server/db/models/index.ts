@@ -27,6 +27,7 @@ export { Vehicle } from './Vehicle';
 export { VehicleEvent } from './VehicleEvent';
 export { VehicleStatus } from './VehicleStatus';
 export { VisitReport } from './VisitReport';
+export { VisitReportAttachment } from './VisitReportAttachment';
 export { WorkshopCapacity } from './WorkshopCapacity';
 export { WorkshopClosedDay } from './WorkshopClosedDay';
 export { WorkshopVisitKind } from './WorkshopVisitKind';

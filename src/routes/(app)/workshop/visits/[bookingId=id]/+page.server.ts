@@ -1,7 +1,8 @@
 import { fail, redirect } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/auth/guards';
 import { orHttpError } from '$lib/server/http/errors';
-import { parseForm } from '$lib/server/http/forms';
+import { readAttachmentForm } from '$lib/server/http/attachment-form';
+import { parseFields, parseForm } from '$lib/server/http/forms';
 import { orFormFailure } from '$lib/server/http/service-fail';
 import {
 	cancelBooking,
@@ -16,6 +17,7 @@ import {
 	reportFormTests
 } from '$lib/server/services/visit-reports';
 import { fromLocal } from '$lib/server/services/bookings';
+import { discardStored } from '$lib/server/services/visit-report-attachments';
 import {
 	cancelSchema,
 	declineSchema,
@@ -33,6 +35,10 @@ const NOTICES: Record<string, string> = {
 	reported:
 		'The visit report is saved, the van’s forecast is updated and the report is e-mailed to the fleet.'
 };
+
+/** A refused report form; the browser has emptied its file input, so the page asks for the files again. */
+const reportFailure = <T extends { status: number; data: object }>(failure: T, hadFiles: boolean) =>
+	fail(failure.status, { ...failure.data, action: 'report', filesNotKept: hadFiles });
 
 export const load: PageServerLoad = async ({ params, url }) => {
 	const user = requireRole('workshop');
@@ -80,18 +86,31 @@ export const actions: Actions = {
 	},
 	report: async ({ params, request }) => {
 		const user = requireRole('workshop');
-		const parsed = await parseForm(visitReportSchema, request);
-		if (!parsed.ok) return tagged('report', parsed.failure);
+		// Before the body is read, so no file is stored for a visit this workshop cannot see
+		const booking = await orHttpError(() => getBooking(user, Number(params.bookingId)));
+		const upload = await readAttachmentForm(user, request);
+		if (!upload.ok) return reportFailure(upload.failure, true);
+		const parsed = parseFields(visitReportSchema, upload.fields);
+		if (!parsed.ok) {
+			await discardStored(upload.files);
+			return reportFailure(parsed.failure, upload.files.length > 0);
+		}
 		const { usage, fuel, oilGrade, serviceHistory, engineFaults, visitedAt, ...rest } = parsed.data;
-		const result = await orFormFailure(parsed.values, async () => {
-			const booking = await getBooking(user, Number(params.bookingId));
-			return createVisitReport(user, booking.id, {
-				...rest,
-				visitedAt: fromLocal(visitedAt, booking.timeZone),
-				rootCause: { usage, fuel, oilGrade, serviceHistory, engineFaults }
-			});
-		});
-		if (!result.ok) return tagged('report', result.failure);
+		// The service attaches the files with the report, or removes them if it refuses
+		const result = await orFormFailure(parsed.values, () =>
+			createVisitReport(
+				user,
+				booking.id,
+				{
+					...rest,
+					visitedAt: fromLocal(visitedAt, booking.timeZone),
+					rootCause: { usage, fuel, oilGrade, serviceHistory, engineFaults }
+				},
+				new Date(),
+				upload.files
+			)
+		);
+		if (!result.ok) return reportFailure(result.failure, upload.files.length > 0);
 		back(params.bookingId, 'reported');
 	},
 	cancel: async ({ params, request }) => {
