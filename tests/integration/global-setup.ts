@@ -12,6 +12,7 @@ declare module 'vitest' {
 		databaseUrl: string;
 		smtpUrl: string;
 		mailDir: string;
+		storageDir: string;
 	}
 }
 
@@ -64,6 +65,7 @@ export default async function setup(project: TestProject) {
 
 	const { startMailSink } = await import('../../src/lib/server/mail/sink');
 	const mailDir = path.join(dir, 'mailbox');
+	const storageDir = path.join(dir, 'uploads');
 	const sink = await startMailSink({ port: 0, dir: mailDir });
 	const smtpUrl = `smtp://127.0.0.1:${sink.port}`;
 
@@ -79,7 +81,7 @@ export default async function setup(project: TestProject) {
 			SMTP_URL: smtpUrl,
 			DEV_MAILBOX_DIR: mailDir,
 			APP_SECRET: 'integration-tests-secret-0123456789abcdef',
-			STORAGE_DIR: path.join(dir, 'uploads'),
+			STORAGE_DIR: storageDir,
 			BODY_SIZE_LIMIT: String(300 * 1024 * 1024),
 			NODE_ENV: 'test'
 		},
@@ -90,6 +92,7 @@ export default async function setup(project: TestProject) {
 	project.provide('databaseUrl', databaseUrl);
 	project.provide('smtpUrl', smtpUrl);
 	project.provide('mailDir', mailDir);
+	project.provide('storageDir', storageDir);
 
 	return async () => {
 		server.kill('SIGTERM');

@@ -13,11 +13,8 @@ const fleet = new Client(baseUrl);
 const otherFleet = new Client(baseUrl);
 const otherWorkshop = new Client(baseUrl);
 const anonymous = new Client(baseUrl);
-// The server keeps files beside its database (global-setup.ts: STORAGE_DIR is <dir>/uploads)
-const storageDir = path.join(
-	path.dirname(inject('databaseUrl').slice('sqlite:'.length)),
-	'uploads'
-);
+// The shared server's storage folder (global-setup.ts)
+const storageDir = inject('storageDir');
 let db: typeof import('../../src/lib/server/db');
 let vanId = 0;
 let bookingId = 0;
