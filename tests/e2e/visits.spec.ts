@@ -98,7 +98,9 @@ test('a visit is requested, confirmed, moved and cancelled, with calendar invita
 		.nth(1);
 	const registration = (await first.getByRole('link').first().textContent())!.trim();
 	await first.getByRole('link').first().click();
-	await page.getByRole('link', { name: 'Request a visit' }).click();
+	// The board offers "Request a visit for …" on every row too: wait for the van's own page.
+	await expect(page.getByRole('heading', { level: 1, name: registration })).toBeVisible();
+	await page.getByRole('link', { name: 'Request a visit', exact: true }).click();
 	await expect(
 		page.getByRole('heading', { level: 1, name: `Request a visit for ${registration}` })
 	).toBeVisible();

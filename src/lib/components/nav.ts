@@ -16,6 +16,7 @@ export const NAV_BY_ROLE: Record<Role, NavItem[]> = {
 	workshop: [
 		{ href: '/workshop', label: 'Queue' },
 		{ href: '/workshop/visits', label: 'Visits' },
+		{ href: '/workshop/capacity', label: 'Capacity' },
 		{ href: '/workshop/imports', label: 'Imports' }
 	],
 	driver: [{ href: '/driver', label: 'My van' }],

@@ -30,6 +30,7 @@ export const DEFAULT_VISIT_MINUTES: Record<VisitKind, number> = {
 
 /** Booking states in which the visit holds a bay. */
 export const OPEN_BOOKING_STATES = ['requested', 'proposed', 'confirmed'] as const;
+export type OpenBookingState = (typeof OPEN_BOOKING_STATES)[number];
 
 /** 'HH:MM' → minutes after midnight. */
 export function minutesOfDay(hhmm: string): number {
@@ -46,3 +47,25 @@ export const WEEKDAY_NAMES = [
 	'Saturdays',
 	'Sundays'
 ];
+
+const DAY_MS = 86_400_000;
+const utcMidnight = (at: Date) => Date.UTC(at.getUTCFullYear(), at.getUTCMonth(), at.getUTCDate());
+
+/**
+ * The window to suggest for a van's visit: from tomorrow to the day before the forecast's
+ * earliest crossing, at most four weeks; four weeks when no crossing is forecast. A crossing
+ * too close (or already past) still leaves three days, so there is always a bookable window.
+ * Dates are UTC midnights. A product rule, not a published formula.
+ */
+export function suggestedVisitWindow(
+	now: Date,
+	crossingEarliest: Date | null
+): { from: Date; to: Date } {
+	const from = utcMidnight(now) + DAY_MS;
+	let to = from + 28 * DAY_MS;
+	if (crossingEarliest) {
+		to = Math.min(to, utcMidnight(crossingEarliest) - DAY_MS);
+		to = Math.max(to, from + 2 * DAY_MS);
+	}
+	return { from: new Date(from), to: new Date(to) };
+}

@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { VAN_STATUSES } from '../domain/status';
+import { OPEN_BOOKING_STATES } from '../domain/visits';
 
 export const BOARD_SORTS = ['urgency', 'registration', 'latest', 'crossing'] as const;
 
@@ -17,3 +18,39 @@ export const boardQuerySchema = z.object({
 	dir: z.enum(['asc', 'desc']).catch('asc')
 });
 export type BoardQueryInput = z.infer<typeof boardQuerySchema>;
+
+const instant = z.string().nullable().describe('ISO 8601 instant, or null');
+
+/** One row of `GET /api/v1/board` (the answer's shape, documented in the OpenAPI description). */
+export const boardRowSchema = z.object({
+	id: z.number().int(),
+	registration: z.string(),
+	makeModel: z.string().nullable(),
+	fleet: z.string().nullable(),
+	depot: z.string().nullable(),
+	status: z.enum(VAN_STATUSES).nullable().describe('null: not forecast yet'),
+	confidence: z.string().nullable(),
+	latestMbar: z.number().nullable(),
+	concernLineMbar: z.number().nullable(),
+	growthMbarPerWeek: z.number().nullable(),
+	crossingEarliest: instant,
+	crossingExpected: instant,
+	crossingLatest: instant,
+	openVisit: z
+		.object({ id: z.number().int(), state: z.enum(OPEN_BOOKING_STATES) })
+		.nullable()
+		.describe(
+			"The van's visit that is requested, proposed or confirmed (a workshop sees only its own), or null"
+		),
+	suggestedVisitBy: instant.describe(
+		'End of the suggested visit window: the day before the earliest forecast crossing, at most four weeks ahead; null when no crossing is forecast'
+	)
+});
+export type BoardRow = z.output<typeof boardRowSchema>;
+
+export const boardPageSchema = z.object({
+	items: z.array(boardRowSchema),
+	total: z.number().int(),
+	page: z.number().int(),
+	pageSize: z.number().int()
+});

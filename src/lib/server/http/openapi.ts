@@ -13,6 +13,7 @@ import {
 import { importSettingsSchema, stageQuerySchema } from '../../validation/imports';
 import { captureQuerySchema, traceQuerySchema } from '../../validation/sensor-tests';
 import { listQuerySchema } from '../../validation/vehicle';
+import { boardPageSchema, boardQuerySchema } from '../../validation/board';
 
 const schema = (s: z.ZodType, io: 'input' | 'output' = 'input') => {
 	const { $schema: _dialect, ...rest } = z.toJSONSchema(s, {
@@ -127,7 +128,8 @@ export function openApiDocument(serverUrl: string) {
 				ReadingsBatch: schema(readingsBatchSchema),
 				EventsBatch: schema(eventsBatchSchema),
 				BatchResult: schema(batchResultSchema, 'output'),
-				ImportSettings: schema(importSettingsSchema)
+				ImportSettings: schema(importSettingsSchema),
+				BoardPage: schema(boardPageSchema, 'output')
 			}
 		},
 		paths: {
@@ -185,6 +187,17 @@ export function openApiDocument(serverUrl: string) {
 					summary: 'The vans you may see',
 					parameters: queryParameters(listQuerySchema),
 					responses: { '200': ok('One page of vans'), ...common }
+				}
+			},
+			'/api/v1/board': {
+				get: {
+					summary:
+						"One page of the risk board: each van's forecast, its standing visit and the suggested visit date",
+					parameters: queryParameters(boardQuerySchema),
+					responses: {
+						'200': ok('One page of vans', { $ref: '#/components/schemas/BoardPage' }),
+						...common
+					}
 				}
 			},
 			'/api/v1/vehicles/{vehicleId}': {

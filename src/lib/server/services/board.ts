@@ -1,25 +1,16 @@
 import { Op, fn, col, type Order, type WhereOptions } from 'sequelize';
-import { Depot, Organisation, Vehicle, VehicleStatus } from '../db';
+import { Booking, Depot, Organisation, Vehicle, VehicleStatus } from '../db';
 import type { SessionUser } from '../auth/lucia';
-import type { BoardQueryInput } from '../../validation/board';
+import type { BoardQueryInput, BoardRow } from '../../validation/board';
 import { VAN_STATUSES, type VanStatus } from '../../domain/status';
+import {
+	OPEN_BOOKING_STATES,
+	suggestedVisitWindow,
+	type OpenBookingState
+} from '../../domain/visits';
 import { vehicleScope } from './scope';
 
-export interface BoardRow {
-	id: number;
-	registration: string;
-	makeModel: string | null;
-	fleet: string | null;
-	depot: string | null;
-	status: VanStatus | null;
-	confidence: string | null;
-	latestMbar: number | null;
-	concernLineMbar: number | null;
-	growthMbarPerWeek: number | null;
-	crossingEarliest: string | null;
-	crossingExpected: string | null;
-	crossingLatest: string | null;
-}
+export type { BoardRow };
 
 const NOT_FORECAST_URGENCY = 9_999_999;
 const iso = (d: Date | string | null | undefined) => (d ? new Date(d).toISOString() : null);
@@ -64,7 +55,7 @@ function orderFor(query: BoardQueryInput): Order {
  * One page of the vans this person may see, most urgent first by default, with filters and
  * search done in the query (never by loading every van).
  */
-export async function listBoard(user: SessionUser, query: BoardQueryInput) {
+export async function listBoard(user: SessionUser, query: BoardQueryInput, now = new Date()) {
 	const where = await scopedWhere(user, query);
 	const byStatus = statusWhere(query.status);
 	const { rows, count } = await Vehicle.findAndCountAll({
@@ -79,6 +70,10 @@ export async function listBoard(user: SessionUser, query: BoardQueryInput) {
 		offset: (query.page - 1) * query.pageSize,
 		distinct: true
 	});
+	const visits = await openVisits(
+		user,
+		rows.map((v) => v.id)
+	);
 	const items: BoardRow[] = rows.map((v) => {
 		const p = v.get({ plain: true }) as Vehicle & {
 			current?: VehicleStatus | null;
@@ -98,10 +93,36 @@ export async function listBoard(user: SessionUser, query: BoardQueryInput) {
 			growthMbarPerWeek: p.current?.growthMbarPerWeek ?? null,
 			crossingEarliest: iso(p.current?.crossingEarliest),
 			crossingExpected: iso(p.current?.crossingExpected),
-			crossingLatest: iso(p.current?.crossingLatest)
+			crossingLatest: iso(p.current?.crossingLatest),
+			openVisit: visits.get(p.id) ?? null,
+			suggestedVisitBy: p.current?.crossingEarliest
+				? suggestedVisitWindow(now, new Date(p.current.crossingEarliest)).to.toISOString()
+				: null
 		};
 	});
 	return { items, total: count, page: query.page, pageSize: query.pageSize };
+}
+
+/**
+ * The standing visit of each van on the page (a van has at most one). A workshop sees only
+ * visits booked with it, so the board tells nothing of another workshop's work.
+ */
+async function openVisits(user: SessionUser, vehicleIds: number[]) {
+	const found = new Map<number, { id: number; state: OpenBookingState }>();
+	if (!vehicleIds.length) return found;
+	const rows = await Booking.findAll({
+		where: {
+			vehicleId: { [Op.in]: vehicleIds },
+			state: { [Op.in]: [...OPEN_BOOKING_STATES] },
+			...(user.role === 'workshop' ? { workshopId: user.organisationId } : {})
+		},
+		attributes: ['id', 'vehicleId', 'state'],
+		order: [['id', 'DESC']]
+	});
+	for (const b of rows)
+		if (!found.has(b.vehicleId))
+			found.set(b.vehicleId, { id: b.id, state: b.state as OpenBookingState });
+	return found;
 }
 
 /** Vans without an expected crossing sort after those with one, whichever the direction. */

@@ -24,6 +24,7 @@ import {
 	VISIT_KIND_LABEL,
 	WEEKDAY_NAMES,
 	minutesOfDay,
+	suggestedVisitWindow,
 	type VisitKind
 } from '../../domain/visits';
 import type { BookingState } from '../../domain/vocabulary';
@@ -320,29 +321,14 @@ async function view(b: Booking): Promise<BookingView> {
 	};
 }
 
-/**
- * The window to suggest for a van's visit: from tomorrow to the day before the forecast's
- * earliest crossing (at most four weeks), or four weeks when no crossing is forecast. `null`
- * `to` never happens; a crossing already past gives a window of the next three days.
- */
+/** The window to suggest for a van's visit (`suggestedVisitWindow`), from its current forecast. */
 export async function suggestWindow(
 	vehicleId: number,
 	now: Date
 ): Promise<{ from: Date; to: Date; crossingEarliest: Date | null }> {
 	const status = await VehicleStatus.findByPk(vehicleId, { attributes: ['crossingEarliest'] });
 	const crossing = status?.crossingEarliest ? new Date(status.crossingEarliest) : null;
-	const from = new Date(
-		Date.UTC(now.getUTCFullYear(), now.getUTCMonth(), now.getUTCDate()) + DAY_MS
-	);
-	let to = new Date(from.getTime() + 28 * DAY_MS);
-	if (crossing) {
-		const beforeCrossing = new Date(
-			Date.UTC(crossing.getUTCFullYear(), crossing.getUTCMonth(), crossing.getUTCDate()) - DAY_MS
-		);
-		to = beforeCrossing.getTime() < to.getTime() ? beforeCrossing : to;
-		if (to.getTime() < from.getTime() + 2 * DAY_MS) to = new Date(from.getTime() + 2 * DAY_MS);
-	}
-	return { from, to, crossingEarliest: crossing };
+	return { ...suggestedVisitWindow(now, crossing), crossingEarliest: crossing };
 }
 
 /** The workshops a fleet may book: those with a contract active today. */
@@ -415,11 +401,12 @@ export async function requestVisit(
 		const msg = `${workshop.name} has no active contract with your fleet, so it cannot take ${vehicle.registration}.`;
 		throw new ValidationError(msg, { workshopId: msg });
 	}
-	const cap = await getCapacity(workshop.id);
-	const startsAt = fromLocal(input.startsAt, cap.timeZone);
-	const { endsAt, day } = checkVisitTime(cap, input.visitKind, startsAt, now);
 	const window = await suggestWindow(vehicle.id, now);
 	const booking = await getDb().transaction(async () => {
+		// Read inside the transaction: a capacity change saved meanwhile is the one applied.
+		const cap = await getCapacity(workshop.id);
+		const startsAt = fromLocal(input.startsAt, cap.timeZone);
+		const { endsAt, day } = checkVisitTime(cap, input.visitKind, startsAt, now);
 		const open = await Booking.findOne({
 			where: { vehicleId: vehicle.id, state: { [Op.in]: [...OPEN_BOOKING_STATES] } }
 		});
