@@ -1,6 +1,5 @@
 import { createHash } from 'node:crypto';
 import fs from 'node:fs';
-import path from 'node:path';
 import { beforeAll, describe, expect, inject, it } from 'vitest';
 import { Client } from './http';
 import { waitForMail } from './mail';

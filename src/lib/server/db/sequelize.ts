@@ -71,15 +71,38 @@ export function createSequelize(url: string = config.DATABASE_URL): Sequelize {
 		define: { underscored: true, timestamps: true }
 	};
 	if (databaseKind(url) === 'sqlite') {
-		return new Sequelize({
-			...common,
-			dialect: 'sqlite',
-			dialectModule: tunedSqlite3,
-			storage: sqliteStorage(url),
-			// IMMEDIATE takes the write lock up front, so two writers queue on the busy
-			// timeout instead of one failing when its read lock cannot be upgraded.
-			transactionType: Transaction.TYPES.IMMEDIATE
-		});
+		return queueWriteTransactions(
+			new Sequelize({
+				...common,
+				dialect: 'sqlite',
+				dialectModule: tunedSqlite3,
+				storage: sqliteStorage(url),
+				// IMMEDIATE takes the write lock up front, so two writers queue on the busy
+				// timeout instead of one failing when its read lock cannot be upgraded.
+				transactionType: Transaction.TYPES.IMMEDIATE
+			})
+		);
 	}
 	return new Sequelize(url, { ...common, dialect: 'postgres' });
+}
+
+/**
+ * SQLite has one writer at a time, and sqlite3 waits for the write lock on one of libuv's four
+ * threads. Dozens of transactions begun at once (an API burst) would fill those threads with
+ * waiters while the holder cannot get a thread to finish: every one then times out. So this
+ * process queues its own transactions and lets one at a time at the lock; other processes (the
+ * jobs worker) still meet it through the busy timeout. A transaction begun inside another runs
+ * unqueued, as before.
+ */
+function queueWriteTransactions(sequelize: Sequelize): Sequelize {
+	const begin = sequelize.transaction.bind(sequelize) as (...args: unknown[]) => Promise<unknown>;
+	let tail: Promise<unknown> = Promise.resolve();
+	(sequelize as unknown as { transaction: unknown }).transaction = (...args: unknown[]) => {
+		const managed = args.some((a) => typeof a === 'function');
+		if (!managed || inTransaction()) return begin(...args);
+		const run = tail.then(() => begin(...args));
+		tail = run.catch(() => undefined);
+		return run;
+	};
+	return sequelize;
 }

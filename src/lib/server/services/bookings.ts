@@ -14,6 +14,7 @@ import {
 	WorkshopCapacity,
 	WorkshopClosedDay,
 	WorkshopVisitKind,
+	serializeOn,
 	together
 } from '../db';
 import type { SessionUser } from '../auth/lucia';
@@ -59,6 +60,9 @@ export interface Capacity {
 	kinds: { kind: VisitKind; label: string; durationMinutes: number }[];
 	isDefault: boolean;
 }
+
+/** The serializeOn topic shared by a workshop's bookings and its capacity changes. */
+export const workshopBookingsTopic = (workshopId: number) => `workshop-bookings:${workshopId}`;
 
 export async function getCapacity(workshopId: number): Promise<Capacity> {
 	const [org, row, closed, kinds] = await together(
@@ -403,6 +407,9 @@ export async function requestVisit(
 	}
 	const window = await suggestWindow(vehicle.id, now);
 	const booking = await getDb().transaction(async () => {
+		// One booking change per van and per workshop at a time, on every instance.
+		await serializeOn(getDb(), `van-bookings:${vehicle.id}`);
+		await serializeOn(getDb(), workshopBookingsTopic(workshop.id));
 		// Read inside the transaction: a capacity change saved meanwhile is the one applied.
 		const cap = await getCapacity(workshop.id);
 		const startsAt = fromLocal(input.startsAt, cap.timeZone);
@@ -458,7 +465,9 @@ async function change(
 	work: (b: Booking) => Promise<string>
 ): Promise<BookingView> {
 	await getDb().transaction(async () => {
+		await serializeOn(getDb(), `booking:${bookingId}`);
 		const b = await findBooking(user, bookingId);
+		await serializeOn(getDb(), workshopBookingsTopic(b.workshopId));
 		refuseClosed(b);
 		const fromState = b.state;
 		const action = await work(b);

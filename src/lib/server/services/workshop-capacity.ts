@@ -1,5 +1,12 @@
 import { Op } from 'sequelize';
-import { getDb, BookingSlot, WorkshopCapacity, WorkshopClosedDay, WorkshopVisitKind } from '../db';
+import {
+	getDb,
+	serializeOn,
+	BookingSlot,
+	WorkshopCapacity,
+	WorkshopClosedDay,
+	WorkshopVisitKind
+} from '../db';
 import type { SessionUser } from '../auth/lucia';
 import {
 	DEFAULT_VISIT_MINUTES,
@@ -15,7 +22,7 @@ import {
 	type ClosedDayInput,
 	type VisitKindsInput
 } from '../../validation/capacity';
-import { getCapacity, toLocal, type Capacity } from './bookings';
+import { getCapacity, toLocal, workshopBookingsTopic, type Capacity } from './bookings';
 import { ForbiddenError, NotFoundError, ValidationError } from './errors';
 import { recordAudit } from './audit';
 import {
@@ -77,6 +84,7 @@ const REFUSED = 'Not saved: these settings would break visits already booked.';
 export async function saveHours(user: SessionUser, input: CapacityHoursInput, now: Date) {
 	const workshopId = ownWorkshop(user);
 	await getDb().transaction(async () => {
+		await serializeOn(getDb(), workshopBookingsTopic(workshopId));
 		const cap = await getCapacity(workshopId);
 		const closedWeekdays = [1, 2, 3, 4, 5, 6, 7].filter((d) => !input.openDays.includes(d));
 		const misfit = longestMisfit(cap.kinds, input.opensAt, input.closesAt);
@@ -124,6 +132,7 @@ export async function addClosedDay(user: SessionUser, input: ClosedDayInput, now
 		throw new ValidationError(msg, { day: msg });
 	};
 	return getDb().transaction(async () => {
+		await serializeOn(getDb(), workshopBookingsTopic(workshopId));
 		const cap = await getCapacity(workshopId);
 		const today = localDay(now, cap.timeZone);
 		if (input.day < today)
@@ -186,6 +195,7 @@ export async function removeClosedDay(user: SessionUser, closedDayId: number, no
 export async function saveVisitKinds(user: SessionUser, input: VisitKindsInput, now: Date) {
 	const workshopId = ownWorkshop(user);
 	await getDb().transaction(async () => {
+		await serializeOn(getDb(), workshopBookingsTopic(workshopId));
 		const cap = await getCapacity(workshopId);
 		const fields: Record<string, string> = {};
 		const open = minutesOfDay(cap.closesAt) - minutesOfDay(cap.opensAt);
