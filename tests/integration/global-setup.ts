@@ -1,10 +1,9 @@
-import { spawn, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import net from 'node:net';
 import type { TestProject } from 'vitest/node';
 import { createTestDatabase } from './test-database';
+import { startBuiltServer } from './servers';
 
 declare module 'vitest' {
 	export interface ProvidedContext {
@@ -14,33 +13,6 @@ declare module 'vitest' {
 		mailDir: string;
 		storageDir: string;
 	}
-}
-
-function freePort(): Promise<number> {
-	return new Promise((resolve, reject) => {
-		const srv = net.createServer();
-		srv.listen(0, '127.0.0.1', () => {
-			const { port } = srv.address() as net.AddressInfo;
-			srv.close(() => resolve(port));
-		});
-		srv.on('error', reject);
-	});
-}
-
-async function waitForHealth(url: string, server: ChildProcess, timeoutMs = 30_000) {
-	const until = Date.now() + timeoutMs;
-	while (Date.now() < until) {
-		if (server.exitCode !== null)
-			throw new Error(`The server exited early (code ${server.exitCode}).`);
-		try {
-			const res = await fetch(`${url}/api/health`);
-			if (res.ok) return;
-		} catch {
-			// not listening yet
-		}
-		await new Promise((r) => setTimeout(r, 150));
-	}
-	throw new Error(`The server at ${url} did not answer within ${timeoutMs} ms.`);
 }
 
 /**
@@ -53,6 +25,7 @@ export default async function setup(project: TestProject) {
 	if (!fs.existsSync(buildEntry))
 		throw new Error('No build found: run `npm run build` before the integration tests.');
 	const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'sootcast-it-'));
+	process.env.APP_SECRET ??= 'integration-tests-secret-0123456789abcdef';
 	const database = await createTestDatabase('server');
 	const databaseUrl = database.url;
 	process.env.DATABASE_URL = databaseUrl;
@@ -69,25 +42,15 @@ export default async function setup(project: TestProject) {
 	const sink = await startMailSink({ port: 0, dir: mailDir });
 	const smtpUrl = `smtp://127.0.0.1:${sink.port}`;
 
-	const port = await freePort();
-	const baseUrl = `http://127.0.0.1:${port}`;
-	const server = spawn(process.execPath, [buildEntry], {
-		env: {
-			...process.env,
-			PORT: String(port),
-			HOST: '127.0.0.1',
-			ORIGIN: baseUrl,
-			DATABASE_URL: databaseUrl,
-			SMTP_URL: smtpUrl,
-			DEV_MAILBOX_DIR: mailDir,
-			APP_SECRET: 'integration-tests-secret-0123456789abcdef',
-			STORAGE_DIR: storageDir,
-			BODY_SIZE_LIMIT: String(300 * 1024 * 1024),
-			NODE_ENV: 'test'
-		},
-		stdio: ['ignore', 'inherit', 'inherit']
+	const server = await startBuiltServer({
+		DATABASE_URL: databaseUrl,
+		SMTP_URL: smtpUrl,
+		DEV_MAILBOX_DIR: mailDir,
+		APP_SECRET: process.env.APP_SECRET!,
+		STORAGE_DIR: storageDir,
+		BODY_SIZE_LIMIT: String(300 * 1024 * 1024)
 	});
-	await waitForHealth(baseUrl, server);
+	const baseUrl = server.baseUrl;
 	project.provide('baseUrl', baseUrl);
 	project.provide('databaseUrl', databaseUrl);
 	project.provide('smtpUrl', smtpUrl);
@@ -95,8 +58,7 @@ export default async function setup(project: TestProject) {
 	project.provide('storageDir', storageDir);
 
 	return async () => {
-		server.kill('SIGTERM');
-		await new Promise((r) => server.once('exit', r));
+		await server.stop();
 		await sink.close();
 		await database.drop();
 		fs.rmSync(dir, { recursive: true, force: true });

@@ -15,6 +15,12 @@ export class Client {
 		return res;
 	}
 
+	/** Carries another client's session over, as a load balancer sends a browser anywhere. */
+	useSessionOf(other: Client): this {
+		this.cookie = other.cookie;
+		return this;
+	}
+
 	/** Posts the sign-in form as a browser would (HTML form, no JavaScript). */
 	async signIn(email: string, password = DEMO_PASSWORD): Promise<Response> {
 		return this.request('/login', {
