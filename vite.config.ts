@@ -25,6 +25,8 @@ export default defineConfig({
 					include: ['src/**/*.integration.test.ts', 'tests/integration/**/*.test.ts'],
 					globalSetup: ['tests/integration/global-setup.ts'],
 					fileParallelism: false,
+					// The tests' own processes (workers, CLIs) share one signing key, as instances must.
+					env: { APP_SECRET: 'integration-tests-secret-0123456789abcdef' },
 					testTimeout: 60_000,
 					hookTimeout: 120_000
 				}
