@@ -150,6 +150,8 @@ describe.skipIf(onPostgres)('backups of the SQLite database', () => {
 		const taken = await cli('backup', [copy], dbFile);
 		expect(taken.code, taken.output).toBe(0);
 		expect(taken.output).toMatch(/integrity ok/);
+		// One self-contained file: no write-ahead log left beside it.
+		expect(fs.existsSync(`${copy}-wal`) || fs.existsSync(`${copy}-shm`)).toBe(false);
 
 		// Change the live database, then restore: the change is gone, the old state is saved aside.
 		await db.Reading.destroy({ where: {} });

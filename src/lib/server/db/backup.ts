@@ -81,6 +81,16 @@ export async function backupSqlite(source: string, destination: string): Promise
 	} finally {
 		await close(db);
 	}
+	// The copy inherits the live database's WAL mode; switch it back so the backup is one
+	// self-contained file (no -wal or -shm beside it, before or after it is opened).
+	const copy = await open(destination, sqlite3.OPEN_READWRITE);
+	try {
+		await new Promise<void>((resolve, reject) =>
+			copy.run('PRAGMA journal_mode=DELETE', (err) => (err ? reject(err) : resolve()))
+		);
+	} finally {
+		await close(copy);
+	}
 	const check = await integrityCheck(destination);
 	if (check !== 'ok') {
 		await fs.rm(destination, { force: true });
