@@ -49,6 +49,27 @@ describe(`several instances on one ${database.kind} database`, () => {
 		expect(new Set(names).size).toBe(names.length);
 	});
 
+	it("take over a dead worker's job once its lease runs out, and not before", async () => {
+		const { acquireLease } = await import('../../src/lib/server/services/job-lease');
+		const { runUnderLease, occurrenceKey } =
+			await import('../../src/lib/server/services/job-runner');
+		await db.migrate(); // a no-op after the test above; needed when this one runs alone
+		const slot = new Date(Date.UTC(2026, 11, 2, 2, 0));
+		// A worker claimed the 02:00 occurrence and the job, then died (nothing released).
+		expect(await acquireLease(occurrenceKey('advice', slot), 'dead-worker', 1_500)).toBe(true);
+		expect(await acquireLease('advice', 'dead-worker', 1_500)).toBe(true);
+		const work = async () => ({ ran: 1 });
+		expect(await runUnderLease('advice', work, { slot })).toMatchObject({ skipped: true });
+		expect(await runUnderLease('advice', work)).toMatchObject({ skipped: true });
+		await new Promise((r) => setTimeout(r, 1_600));
+		expect(await runUnderLease('advice', work, { slot })).toMatchObject({
+			skipped: false,
+			summary: { ran: 1 }
+		});
+		// Done now, the occurrence stays claimed: a late worker does not run it again.
+		expect(await runUnderLease('advice', work, { slot })).toMatchObject({ skipped: true });
+	});
+
 	describe('two job workers started together', () => {
 		let vans = 0;
 		beforeAll(async () => {
