@@ -190,8 +190,33 @@ describe('requesting a visit from the risk board', () => {
 			(v) => v.openVisit === null && v.crossingEarliest !== null
 		) as BoardRow;
 		expect(van).toBeDefined();
-		const window = suggestedVisitWindow(new Date(), new Date(van.crossingEarliest!));
+		const window = suggestedVisitWindow(new Date(), {
+			crossingEarliest: new Date(van.crossingEarliest!),
+			overLine: false
+		});
 		expect(van.suggestedVisitBy).toBe(window.to.toISOString());
+		expect(van.visitUrgent).toBe(window.urgent);
+		// A van already past the line is asked for as soon as possible, never given weeks. (The
+		// shared database's short demo history has none, so one van's status is set for a moment.)
+		const other = (await board('fleet')).find((v) => v.id !== van.id && v.openVisit === null)!;
+		const saved = (await db.VehicleStatus.findByPk(other.id))!.get({ plain: true });
+		await db.VehicleStatus.update(
+			{ status: 'over_line', crossingEarliest: null },
+			{ where: { vehicleId: other.id } }
+		);
+		try {
+			const over = (await board('fleet')).find((v) => v.id === other.id)!;
+			expect(over.visitUrgent).toBe(true);
+			expect(Date.parse(over.suggestedVisitBy!) - Date.now()).toBeLessThan(4 * 86_400_000);
+			const page = await (await clients.fleet.request(`/fleet/vans/${other.id}/visit`)).text();
+			expect(page).toContain('Book as soon as possible');
+			expect(page).toContain('already over the concern line');
+		} finally {
+			await db.VehicleStatus.update(
+				{ status: saved.status, crossingEarliest: saved.crossingEarliest },
+				{ where: { vehicleId: other.id } }
+			);
+		}
 		expect(await (await clients.fleet.request('/fleet')).text()).toContain(
 			`href="/fleet/vans/${van.id}/visit"`
 		);

@@ -51,21 +51,34 @@ export const WEEKDAY_NAMES = [
 const DAY_MS = 86_400_000;
 const utcMidnight = (at: Date) => Date.UTC(at.getUTCFullYear(), at.getUTCMonth(), at.getUTCDate());
 
+/** A suggested visit window; `urgent` when the van should come in as soon as possible. */
+export interface VisitWindow {
+	from: Date;
+	to: Date;
+	urgent: boolean;
+}
+
 /**
  * The window to suggest for a van's visit: from tomorrow to the day before the forecast's
- * earliest crossing, at most four weeks; four weeks when no crossing is forecast. A crossing
- * too close (or already past) still leaves three days, so there is always a bookable window.
- * Dates are UTC midnights. A product rule, not a published formula.
+ * earliest crossing, at most four weeks; four weeks when no crossing is forecast. A van already
+ * over the line, or whose crossing is too close for a window of three days to end before it, is
+ * `urgent`: the next three days, to be read as "as soon as possible", never as a date after the
+ * crossing. Dates are UTC midnights. A product rule, not a published formula.
  */
 export function suggestedVisitWindow(
 	now: Date,
-	crossingEarliest: Date | null
-): { from: Date; to: Date } {
+	forecast: { crossingEarliest: Date | null; overLine: boolean }
+): VisitWindow {
 	const from = utcMidnight(now) + DAY_MS;
-	let to = from + 28 * DAY_MS;
-	if (crossingEarliest) {
-		to = Math.min(to, utcMidnight(crossingEarliest) - DAY_MS);
-		to = Math.max(to, from + 2 * DAY_MS);
-	}
-	return { from: new Date(from), to: new Date(to) };
+	const soonest = { from: new Date(from), to: new Date(from + 2 * DAY_MS), urgent: true };
+	if (forecast.overLine) return soonest;
+	if (!forecast.crossingEarliest)
+		return { from: new Date(from), to: new Date(from + 28 * DAY_MS), urgent: false };
+	const dayBefore = utcMidnight(forecast.crossingEarliest) - DAY_MS;
+	if (dayBefore < from + 2 * DAY_MS) return soonest;
+	return {
+		from: new Date(from),
+		to: new Date(Math.min(from + 28 * DAY_MS, dayBefore)),
+		urgent: false
+	};
 }

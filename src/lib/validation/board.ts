@@ -43,8 +43,13 @@ export const boardRowSchema = z.object({
 			"The van's visit that is requested, proposed or confirmed (a workshop sees only its own), or null"
 		),
 	suggestedVisitBy: instant.describe(
-		'End of the suggested visit window: the day before the earliest forecast crossing, at most four weeks ahead; null when no crossing is forecast'
-	)
+		'End of the suggested visit window: the day before the earliest forecast crossing, at most four weeks ahead; null when no crossing is forecast and the van is not over the line'
+	),
+	visitUrgent: z
+		.boolean()
+		.describe(
+			'True when the van should come in as soon as possible: over the line, or its earliest crossing too close for a three-day window to end before it'
+		)
 });
 export type BoardRow = z.output<typeof boardRowSchema>;
 

@@ -95,9 +95,7 @@ export async function listBoard(user: SessionUser, query: BoardQueryInput, now =
 			crossingExpected: iso(p.current?.crossingExpected),
 			crossingLatest: iso(p.current?.crossingLatest),
 			openVisit: visits.get(p.id) ?? null,
-			suggestedVisitBy: p.current?.crossingEarliest
-				? suggestedVisitWindow(now, new Date(p.current.crossingEarliest)).to.toISOString()
-				: null
+			...suggestion(now, p.current?.crossingEarliest ?? null, p.current?.status === 'over_line')
 		};
 	});
 	return { items, total: count, page: query.page, pageSize: query.pageSize };
@@ -193,4 +191,14 @@ export async function visibleDepots(user: SessionUser) {
 		raw: true
 	});
 	return depots.map((d) => ({ id: d.id, name: d.name }));
+}
+
+/** The board's hint: the suggested window's end, or "as soon as possible"; none without a forecast. */
+function suggestion(now: Date, crossingEarliest: Date | string | null, overLine: boolean) {
+	if (!crossingEarliest && !overLine) return { suggestedVisitBy: null, visitUrgent: false };
+	const w = suggestedVisitWindow(now, {
+		crossingEarliest: crossingEarliest ? new Date(crossingEarliest) : null,
+		overLine
+	});
+	return { suggestedVisitBy: w.to.toISOString(), visitUrgent: w.urgent };
 }

@@ -26,6 +26,7 @@ import {
 	WEEKDAY_NAMES,
 	minutesOfDay,
 	suggestedVisitWindow,
+	type VisitWindow,
 	type VisitKind
 } from '../../domain/visits';
 import type { BookingState } from '../../domain/vocabulary';
@@ -329,10 +330,17 @@ async function view(b: Booking): Promise<BookingView> {
 export async function suggestWindow(
 	vehicleId: number,
 	now: Date
-): Promise<{ from: Date; to: Date; crossingEarliest: Date | null }> {
-	const status = await VehicleStatus.findByPk(vehicleId, { attributes: ['crossingEarliest'] });
-	const crossing = status?.crossingEarliest ? new Date(status.crossingEarliest) : null;
-	return { ...suggestedVisitWindow(now, crossing), crossingEarliest: crossing };
+): Promise<VisitWindow & { crossingEarliest: Date | null; overLine: boolean }> {
+	const status = await VehicleStatus.findByPk(vehicleId, {
+		attributes: ['crossingEarliest', 'status']
+	});
+	const crossingEarliest = status?.crossingEarliest ? new Date(status.crossingEarliest) : null;
+	const overLine = status?.status === 'over_line';
+	return {
+		...suggestedVisitWindow(now, { crossingEarliest, overLine }),
+		crossingEarliest,
+		overLine
+	};
 }
 
 /** The workshops a fleet may book: those with a contract active today. */
