@@ -1,15 +1,5 @@
 import { expect, test, type Page } from '@playwright/test';
-import AxeBuilder from '@axe-core/playwright';
-import { ACCOUNTS, open, signIn } from './helpers';
-
-/** No serious or critical accessibility violations on the page as it is now. */
-async function expectAccessible(page: Page) {
-	const results = await new AxeBuilder({ page }).analyze();
-	const bad = results.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical');
-	expect(
-		bad.map((v) => `${v.id}: ${v.help} (${v.nodes.map((n) => n.target.join(' ')).join('; ')})`)
-	).toEqual([]);
-}
+import { ACCOUNTS, open, signIn, expectAccessible } from './helpers';
 
 const addDays = (day: string, n: number) =>
 	new Date(Date.parse(`${day}T12:00:00Z`) + n * 86_400_000).toISOString().slice(0, 10);

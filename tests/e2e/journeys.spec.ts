@@ -1,6 +1,5 @@
 import { expect, test, type Page } from '@playwright/test';
-import AxeBuilder from '@axe-core/playwright';
-import { ACCOUNTS, open, signIn } from './helpers';
+import { ACCOUNTS, open, signIn, expectAccessible } from './helpers';
 
 // `npm run screenshots` sets SCREENSHOTS=1 to refresh docs/screenshots; a normal test run
 // checks the same pages without touching the repository.
@@ -8,15 +7,6 @@ const SHOTS = process.env.SCREENSHOTS === '1';
 
 async function shoot(page: Page, name: string) {
 	if (SHOTS) await page.screenshot({ path: `docs/screenshots/${name}.png`, fullPage: true });
-}
-
-/** No serious or critical accessibility violations on the page as it is now. */
-async function expectAccessible(page: Page) {
-	const results = await new AxeBuilder({ page }).analyze();
-	const bad = results.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical');
-	expect(
-		bad.map((v) => `${v.id}: ${v.help} (${v.nodes.map((n) => n.target.join(' ')).join('; ')})`)
-	).toEqual([]);
 }
 
 test.describe('each role does its main job', () => {

@@ -1,12 +1,11 @@
 import path from 'node:path';
 import zlib from 'node:zlib';
 import { expect, request, test, type APIRequestContext, type Page } from '@playwright/test';
-import AxeBuilder from '@axe-core/playwright';
 import { TZDate } from '@date-fns/tz';
 import sqlite3 from 'sqlite3';
 import { DEMO_PASSWORD } from '../../src/lib/server/demo/scenario';
 import { baseURL } from '../../playwright.config';
-import { ACCOUNTS, open, signIn } from './helpers';
+import { ACCOUNTS, open, signIn, expectAccessible } from './helpers';
 
 // The launcher's database sits in this folder (playwright.config.ts).
 const dataDir = process.env.SOOTCAST_E2E_DIR ?? '';
@@ -64,15 +63,6 @@ async function signedInApi(email: string) {
 	const api = await request.newContext({ baseURL });
 	await postForm(api, '/login', { email, password: DEMO_PASSWORD });
 	return api;
-}
-
-/** No serious or critical accessibility violations on the page as it is now. */
-async function expectAccessible(page: Page) {
-	const results = await new AxeBuilder({ page }).analyze();
-	const bad = results.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical');
-	expect(
-		bad.map((v) => `${v.id}: ${v.help} (${v.nodes.map((n) => n.target.join(' ')).join('; ')})`)
-	).toEqual([]);
 }
 
 /** The photo is shown, and decoded: the guarded address served real image bytes. */

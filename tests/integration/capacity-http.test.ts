@@ -209,7 +209,7 @@ describe('requesting a visit from the risk board', () => {
 			expect(over.visitUrgent).toBe(true);
 			expect(Date.parse(over.suggestedVisitBy!) - Date.now()).toBeLessThan(4 * 86_400_000);
 			const page = await (await clients.fleet.request(`/fleet/vans/${other.id}/visit`)).text();
-			expect(page).toContain('Book as soon as possible');
+			expect(page).toContain('Suggested window: <strong>as soon as possible</strong>');
 			expect(page).toContain('already over the concern line');
 		} finally {
 			await db.VehicleStatus.update(
