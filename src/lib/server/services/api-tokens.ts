@@ -107,14 +107,20 @@ export async function authenticateApiToken(token: string, now = new Date()): Pro
 		const capacity = config.API_RATE_BURST;
 		const perSecond = config.API_RATE_PER_MINUTE / 60;
 		const bucket = await ApiRateBucket.findByPk(row.id);
+		// `now` was read before this request queued for the lock, so a twin that queued later may
+		// already have refilled up to a later time: the bucket's clock only moves forward, or the
+		// same seconds would be refilled twice.
+		const refilledAt = bucket
+			? new Date(Math.max(now.getTime(), new Date(bucket.refilledAt).getTime()))
+			: now;
 		const elapsedS = bucket
-			? Math.max(0, (now.getTime() - new Date(bucket.refilledAt).getTime()) / 1000)
+			? (refilledAt.getTime() - new Date(bucket.refilledAt).getTime()) / 1000
 			: 0;
 		const available = bucket ? Math.min(capacity, bucket.tokens + elapsedS * perSecond) : capacity;
 		if (available < 1)
 			throw new RateLimitedError(Math.max(1, Math.ceil((1 - available) / perSecond)));
-		if (bucket) await bucket.update({ tokens: available - 1, refilledAt: now });
-		else await ApiRateBucket.create({ apiTokenId: row.id, tokens: available - 1, refilledAt: now });
+		if (bucket) await bucket.update({ tokens: available - 1, refilledAt });
+		else await ApiRateBucket.create({ apiTokenId: row.id, tokens: available - 1, refilledAt });
 		await ApiToken.update({ lastUsedAt: now }, { where: { id: row.id } });
 	});
 	const organisation = await Organisation.findByPk(row.organisationId, {
