@@ -95,6 +95,13 @@ function parseIcs(text: string) {
 
 async function invitationsFor(uid: string) {
 	await deliverDueMail(new Date(now.getTime() + 1000));
+	// Each booking change also kicks an immediate delivery in the background, which may still be
+	// sending a message it claimed: wait (bounded) until the outbox holds nothing unsent.
+	const until = Date.now() + 30_000;
+	while ((await db.OutboxMessage.count({ where: { state: 'pending' } })) > 0) {
+		if (Date.now() > until) throw new Error('The outbox still holds unsent messages after 30 s.');
+		await new Promise((r) => setTimeout(r, 100));
+	}
 	const mails = await readMailbox(mailDir);
 	return mails
 		.flatMap((m) =>
