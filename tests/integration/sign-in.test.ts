@@ -57,7 +57,15 @@ describe('sign-in', () => {
 		expect(cookie).toMatch(/SameSite=Lax/i);
 	});
 
-	it('does not follow a redirect to another site after sign-in', async () => {
+	// Usual open-redirect bypass forms (OWASP "Unvalidated Redirects and Forwards Cheat Sheet";
+	// the WHATWG URL Standard drops tabs and newlines and reads a backslash as a slash).
+	it.each([
+		'//evil.test/x',
+		'/\t/evil.example',
+		'/\\evil.example',
+		'https://evil.example',
+		'/\n/evil.example'
+	])('does not follow a redirect to another site after sign-in (%j)', async (redirectTo) => {
 		const client = new Client(baseUrl);
 		const res = await client.request('/login', {
 			method: 'POST',
@@ -65,9 +73,26 @@ describe('sign-in', () => {
 			body: new URLSearchParams({
 				email: DEMO_ACCOUNTS.fleetManager.email,
 				password: 'sootcast-demo',
-				redirectTo: '//evil.test/x'
+				redirectTo
 			})
 		});
+		expect(res.status).toBe(303);
 		expect(res.headers.get('location')).toBe('/fleet');
+	});
+
+	it('follows a path on this site after sign-in, and keeps none from a crafted link', async () => {
+		const page = await new Client(baseUrl).request('/login?redirectTo=%2F%09%2Fevil.example');
+		expect(await page.text()).not.toContain('evil.example');
+		const client = new Client(baseUrl);
+		const res = await client.request('/login', {
+			method: 'POST',
+			headers: { 'content-type': 'application/x-www-form-urlencoded', accept: 'text/html' },
+			body: new URLSearchParams({
+				email: DEMO_ACCOUNTS.fleetManager.email,
+				password: 'sootcast-demo',
+				redirectTo: '/fleet/imports?kind=readings'
+			})
+		});
+		expect(res.headers.get('location')).toBe('/fleet/imports?kind=readings');
 	});
 });

@@ -16,9 +16,4 @@ export const signInSchema = z.object({
 });
 export type SignInInput = z.infer<typeof signInSchema>;
 
-/** Only same-site paths: an open redirect would let a link send people elsewhere after sign-in. */
-export function safeRedirect(target: string | undefined | null): string | null {
-	if (!target || !target.startsWith('/') || target.startsWith('//') || target.startsWith('/\\'))
-		return null;
-	return target;
-}
+export { safeRedirect } from './redirect';
