@@ -3,15 +3,11 @@ import type { BoardQueryInput } from '../../validation/board';
 import { STATUS_LABELS } from '../../domain/status';
 import { fromMbar, type PressureUnit } from '../../domain/units';
 import { listBoard } from './board';
+import { csvField } from '../http/csv';
+
+export { csvField };
 
 export const EXPORT_LIMIT = 10_000;
-
-/** RFC 4180: quote a field when it holds a comma, a quote or a line break; double the quotes. */
-export function csvField(value: string | number | null): string {
-	if (value === null) return '';
-	const text = String(value);
-	return /[",\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
-}
 
 /** The board as CSV with the current filters and sort, pressures in the viewer's unit. */
 export async function exportBoardCsv(user: SessionUser, query: BoardQueryInput): Promise<string> {
