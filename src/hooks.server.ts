@@ -3,6 +3,9 @@ import { randomUUID } from 'node:crypto';
 import { lucia } from '$lib/server/auth/lucia';
 import { areaOfRoute, mayEnter } from '$lib/server/auth/guards';
 import { getDb, migrate } from '$lib/server/db';
+import { installProcessGuard } from '$lib/server/http/process-guard';
+
+installProcessGuard();
 
 // The schema is brought up to date once per process, on the first request (not while building).
 let ready: Promise<unknown> | null = null;

@@ -2,6 +2,35 @@ import { Readable } from 'node:stream';
 import busboy from 'busboy';
 import { ValidationError } from '../services/errors';
 
+/** What the sender is told when the form breaks off before its end (cut short, client gone). */
+export const CUT_OFF_MESSAGE =
+	'The upload was cut off before the end of the form arrived. Nothing was stored; please send the file again.';
+
+const cutOff = () => new ValidationError(CUT_OFF_MESSAGE, { file: CUT_OFF_MESSAGE });
+
+/**
+ * Feeds the request body to busboy and resolves when the form has been read. Every parser or
+ * stream error (a body ending mid-file, the client going away) becomes a ValidationError for
+ * this request: an error event nobody listens to would take the whole server down.
+ */
+function pump(request: Request, parser: busboy.Busboy): Promise<void> {
+	const finished = new Promise<void>((resolve, reject) => {
+		parser.on('close', () => resolve());
+		parser.on('error', () => reject(cutOff()));
+	});
+	const source = Readable.fromWeb(
+		request.body as import('node:stream/web').ReadableStream<Uint8Array>
+	);
+	source.on('error', () => parser.destroy(cutOff()));
+	source.pipe(parser);
+	return finished;
+}
+
+/** Each file stream gets a listener at once: busboy destroys it with an error on a cut-off body. */
+function guard(stream: NodeJS.ReadableStream): void {
+	stream.on('error', () => undefined);
+}
+
 export interface IncomingFile {
 	fileName: string;
 	/** The file's bytes as they arrive; never held whole in memory. */
@@ -34,6 +63,7 @@ export async function readMultipart<T>(
 		fields[name] = value;
 	});
 	parser.on('file', (_name, stream, info) => {
+		guard(stream);
 		if (work || !info.filename) {
 			stream.resume();
 			return;
@@ -42,16 +72,13 @@ export async function readMultipart<T>(
 		// If the consumer gave up early, keep the rest flowing so the form's other parts arrive
 		work.catch(() => stream.resume());
 	});
-	const finished = new Promise<void>((resolve, reject) => {
-		parser.on('close', () => resolve());
-		parser.on('error', reject);
-	});
-	const source = Readable.fromWeb(
-		request.body as import('node:stream/web').ReadableStream<Uint8Array>
-	);
-	source.on('error', (err) => parser.destroy(err));
-	source.pipe(parser);
-	await finished;
+	try {
+		await pump(request, parser);
+	} catch (err) {
+		// Let the consumer finish (and remove what it had written) before answering.
+		await work?.catch(() => undefined);
+		throw err;
+	}
 	return { fields, result: work ? await work : undefined };
 }
 
@@ -90,6 +117,7 @@ export async function readFormWithFiles<T>(
 	let queue: Promise<void> = Promise.resolve();
 	parser.on('field', add);
 	parser.on('file', (_name, stream, { filename: fileName }) => {
+		guard(stream);
 		if (!fileName) {
 			stream.resume(); // an empty file input
 			return;
@@ -109,17 +137,8 @@ export async function readFormWithFiles<T>(
 			}
 		});
 	});
-	const finished = new Promise<void>((resolve, reject) => {
-		parser.on('close', () => resolve());
-		parser.on('error', reject);
-	});
-	const source = Readable.fromWeb(
-		request.body as import('node:stream/web').ReadableStream<Uint8Array>
-	);
-	source.on('error', (err) => parser.destroy(err));
-	source.pipe(parser);
 	// A broken upload still lets the files already written be handed back for cleaning up
-	await finished.catch((err) => {
+	await pump(request, parser).catch((err) => {
 		failure ??= err;
 	});
 	await queue;

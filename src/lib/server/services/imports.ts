@@ -31,7 +31,8 @@ import {
 	newKey,
 	openRead,
 	readRange,
-	removeFile
+	removeFile,
+	removingOnBreak
 } from '../storage';
 import { notTextMessage } from '../storage/sniff';
 import { contractedFleetIds, vehicleScope } from './scope';
@@ -92,7 +93,7 @@ export async function stageImportFile(
 	const key = newKey(user.organisationId, 'csv', now);
 	const writer = await createFileWriter(key, { maxBytes: config.IMPORT_MAX_BYTES });
 	let tooLarge = false;
-	for await (const chunk of input.body) {
+	for await (const chunk of removingOnBreak(input.body, writer)) {
 		if (tooLarge) continue; // read the rest and drop it, so the answer still reaches the sender
 		try {
 			await writer.write(chunk);

@@ -7,7 +7,14 @@ import { Op } from 'sequelize';
 import { Reading, SensorTest, SensorType, Upload, Vehicle, getDb } from '../db';
 import type { SessionUser } from '../auth/lucia';
 import { config } from '../config';
-import { createFileWriter, FileTooLargeError, formatBytes, newKey, openRead } from '../storage';
+import {
+	createFileWriter,
+	FileTooLargeError,
+	formatBytes,
+	newKey,
+	openRead,
+	removingOnBreak
+} from '../storage';
 import { notTextMessage, sniffContent, type Sniffed } from '../storage/sniff';
 import { ForbiddenError, NotFoundError, PayloadTooLargeError, ValidationError } from './errors';
 import { vehicleScope } from './scope';
@@ -191,7 +198,7 @@ export async function uploadStaticCapture(
 		if (refusal) throw new ValidationError(refusal, { file: refusal });
 		parser.push(decoder.decode(chunk, { stream: true }));
 	};
-	for await (const chunk of file.body) {
+	for await (const chunk of removingOnBreak(file.body, writer)) {
 		if (failure) continue; // read and drop the rest, so the answer still reaches the sender
 		try {
 			await writer.write(chunk);

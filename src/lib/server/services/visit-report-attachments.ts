@@ -13,7 +13,8 @@ import {
 	formatBytes,
 	newKey,
 	openRead,
-	removeFile
+	removeFile,
+	removingOnBreak
 } from '../storage';
 import { MEDIA_SNIFF_BYTES, sniffContent, sniffMediaType } from '../storage/sniff';
 import {
@@ -75,7 +76,7 @@ export async function storeAttachment(
 	let head = new Uint8Array(0);
 	let mediaType: AttachmentMediaType | null = null;
 	let failure: unknown = null;
-	for await (const chunk of file.body) {
+	for await (const chunk of removingOnBreak(file.body, writer)) {
 		if (failure) continue; // drain, so the answer still reaches the sender
 		try {
 			if (head.length < MEDIA_SNIFF_BYTES) {

@@ -164,3 +164,19 @@ export async function sizeOf(key: string): Promise<number> {
 export async function removeFile(key: string): Promise<void> {
 	await rm(pathOf(key), { force: true });
 }
+
+/**
+ * The chunks of an incoming file; if the stream breaks (a body cut off, the client gone), the
+ * partly written file is removed before the error goes on, so nothing half-stored remains.
+ */
+export async function* removingOnBreak(
+	body: AsyncIterable<Uint8Array>,
+	writer: FileWriter
+): AsyncGenerator<Uint8Array> {
+	try {
+		for await (const chunk of body) yield chunk;
+	} catch (err) {
+		await writer.abort();
+		throw err;
+	}
+}
