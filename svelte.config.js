@@ -7,6 +7,23 @@ const config = {
 	compilerOptions: { runes: true },
 	kit: {
 		adapter: adapter({ out: 'build' }),
+		// Content-Security-Policy: SvelteKit adds a nonce or hash for its own inline scripts, so no
+		// other script runs; styles allow inline attributes (Svelte and the charts set style="").
+		csp: {
+			mode: 'auto',
+			directives: {
+				'default-src': ['self'],
+				'script-src': ['self'],
+				'style-src': ['self', 'unsafe-inline'],
+				'img-src': ['self', 'data:', 'blob:'],
+				'font-src': ['self'],
+				'connect-src': ['self'],
+				'object-src': ['none'],
+				'base-uri': ['self'],
+				'form-action': ['self'],
+				'frame-ancestors': ['none']
+			}
+		},
 		typescript: {
 			config: (tsconfig) => {
 				// svelte-check also covers the scheduled jobs and the benchmarks.

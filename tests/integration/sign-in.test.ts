@@ -95,4 +95,15 @@ describe('sign-in', () => {
 		});
 		expect(res.headers.get('location')).toBe('/fleet/imports?kind=readings');
 	});
+
+	it('sends a Content-Security-Policy that lets only our own scripts run', async () => {
+		const res = await new Client(baseUrl).request('/login');
+		const csp = res.headers.get('content-security-policy') ?? '';
+		// SvelteKit's csp option: a nonce for its inline start-up script on server-rendered pages.
+		expect(csp).toMatch(/script-src 'self' 'nonce-[A-Za-z0-9+/=]+'/);
+		expect(csp).toContain("object-src 'none'");
+		expect(csp).toContain("frame-ancestors 'none'");
+		const nonce = /'nonce-([^']+)'/.exec(csp)![1];
+		expect(await res.text()).toContain(`nonce="${nonce}"`);
+	});
 });

@@ -1,7 +1,8 @@
 /**
  * `npm start`: builds if the build is missing or older than the sources, migrates, loads the
  * demo fleet into an empty database, starts the local mail sink (when no SMTP_URL is set), the
- * web server and the jobs worker, and stops them all on Ctrl-C.
+ * web server and the jobs worker, and stops them all on Ctrl-C. The web server runs as a child
+ * process and is restarted (with a back-off) if it stops unexpectedly.
  */
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
@@ -72,21 +73,44 @@ if (config.SEED_DEMO) {
 }
 
 const origin = config.ORIGIN ?? `http://localhost:${config.PORT}`;
-const web: ChildProcess = spawn(process.execPath, [buildEntry], {
-	stdio: 'inherit',
-	env: {
-		...process.env,
-		PORT: String(config.PORT),
-		HOST: config.HOST,
-		ORIGIN: origin,
-		SMTP_URL: smtpUrl,
-		DEV_MAILBOX_DIR: sink ? sink.dir : '',
-		DATABASE_URL: config.DATABASE_URL,
-		// adapter-node refuses bodies above BODY_SIZE_LIMIT (512 KB by default) before the app sees
-		// them; captures may be far larger, and each route enforces its own limit while streaming.
-		BODY_SIZE_LIMIT: process.env.BODY_SIZE_LIMIT ?? String(config.CAPTURE_MAX_BYTES + 1024 * 1024)
-	}
-});
+let web: ChildProcess;
+let stopping = false;
+let restarts = 0;
+let startedAt = 0;
+/** Starts the web server; if it stops unexpectedly it is started again, waiting longer each time. */
+function startWeb(): void {
+	startedAt = Date.now();
+	web = spawn(process.execPath, [buildEntry], {
+		stdio: 'inherit',
+		env: {
+			...process.env,
+			PORT: String(config.PORT),
+			HOST: config.HOST,
+			ORIGIN: origin,
+			SMTP_URL: smtpUrl,
+			DEV_MAILBOX_DIR: sink ? sink.dir : '',
+			DATABASE_URL: config.DATABASE_URL,
+			// adapter-node refuses bodies above BODY_SIZE_LIMIT (512 KB by default) before the app sees
+			// them; captures may be far larger, and each route enforces its own limit while streaming.
+			BODY_SIZE_LIMIT: process.env.BODY_SIZE_LIMIT ?? String(config.CAPTURE_MAX_BYTES + 1024 * 1024)
+		}
+	});
+	web.on('exit', (code, signal) => {
+		if (stopping) return;
+		// A server that ran a minute or more starts again at once; one that keeps failing waits
+		// 1, 2, 4 … up to 30 s between tries.
+		if (Date.now() - startedAt > 60_000) restarts = 0;
+		const waitMs = Math.min(30_000, 1000 * 2 ** restarts);
+		restarts += 1;
+		console.error(
+			`[start] The web server stopped unexpectedly (${signal ?? `exit code ${code}`}); restarting in ${Math.round(waitMs / 1000)} s.`
+		);
+		setTimeout(() => {
+			if (!stopping) startWeb();
+		}, waitMs).unref();
+	});
+}
+startWeb();
 const stopWorker = startWorker();
 
 console.log(`
@@ -101,7 +125,6 @@ Demo sign-ins (password for all: ${DEMO_PASSWORD})
 Press Ctrl-C to stop.
 `);
 
-let stopping = false;
 async function stop(code = 0) {
 	if (stopping) return;
 	stopping = true;
@@ -113,9 +136,3 @@ async function stop(code = 0) {
 }
 process.on('SIGINT', () => void stop(0));
 process.on('SIGTERM', () => void stop(0));
-web.on('exit', (code) => {
-	if (!stopping) {
-		console.error(`The web server stopped (exit code ${code}).`);
-		void stop(code ?? 1);
-	}
-});
