@@ -449,5 +449,16 @@ describe('import pages', () => {
 			).status
 		).toBe(404);
 		expect((await run(other, upload.id, {})).status).toBe(404);
+		// The page's own form actions answer the same 404, and nothing is imported.
+		const before = await importedCount();
+		for (const action of ['preview', 'import']) {
+			const res = await other.request(`/fleet/imports/${upload.id}?/${action}`, {
+				method: 'POST',
+				headers: { 'content-type': 'application/x-www-form-urlencoded', accept: 'text/html' },
+				body: new URLSearchParams({ kind: 'readings' })
+			});
+			expect(res.status, action).toBe(404);
+		}
+		expect(await importedCount()).toBe(before);
 	});
 });

@@ -2,7 +2,7 @@
  * The import pages' loads and actions, shared by the fleet and workshop areas (each route calls
  * its guard first and passes the user in).
  */
-import { fail, redirect } from '@sveltejs/kit';
+import { error, fail, redirect } from '@sveltejs/kit';
 import type { SessionUser } from '../auth/lucia';
 import { readMultipart } from './multipart';
 import { fieldErrors } from './forms';
@@ -120,6 +120,8 @@ export async function previewAction(user: SessionUser, uploadId: number, request
 				totalProblems: err.totalProblems
 			});
 		if (err instanceof ValidationError) return fail(400, { values: raw, errors: err.fields });
+		// Another organisation's upload is answered like a missing one.
+		if (err instanceof NotFoundError) error(404, err.message);
 		throw err;
 	}
 }
@@ -143,6 +145,8 @@ export async function importAction(
 				totalProblems: err.totalProblems
 			});
 		if (err instanceof ValidationError) return fail(400, { values: raw, errors: err.fields });
+		// Another organisation's upload is answered like a missing one.
+		if (err instanceof NotFoundError) error(404, err.message);
 		throw err;
 	}
 	redirect(303, `${base}/imports?imported=${result.batchId}&duplicates=${result.duplicates.count}`);
