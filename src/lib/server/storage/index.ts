@@ -96,6 +96,9 @@ export async function createFileWriter(
 			closed = true;
 			out.destroy();
 		}
+		// The file is opened asynchronously: removing it before the stream has closed could let a
+		// late open create it again, leaving a stray partial file behind.
+		if (!out.closed) await new Promise<void>((resolve) => out.once('close', () => resolve()));
 		await rm(tempPath, { force: true });
 	};
 
